@@ -1,0 +1,15 @@
+#!/usr/bin/env bash
+# Installs what is missing, builds dwellmark and runs it on the bundled demo
+# scenario: the GUI when a display is present, else the headless run.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+bash third_party/install-deps.sh
+cmake -S . -B build -DCMAKE_BUILD_TYPE=Release >/dev/null
+cmake --build build -j"$(nproc 2>/dev/null || echo 2)"
+demo=assets/scenarios/demo.json
+out=out/demo
+if [ -n "${DISPLAY:-}" ] && ./build/app/dwellmark gui --help >/dev/null 2>&1; then
+  exec ./build/app/dwellmark gui "$demo"
+fi
+echo "no display: running the headless demo (for the window, run under xvfb-run or on a desktop)"
+./build/app/dwellmark simulate "$demo" --out "$out" --force

@@ -1,0 +1,259 @@
+#include "core/dynamics.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+#include "core/constants.hpp"
+
+namespace dm {
+
+namespace {
+
+// Time derivative of the integrated state.
+struct Deriv {
+  Vec3 dPosition, dVelocity, dSpin;
+  Eigen::Vector4d dOrientation;  // (w, x, y, z)
+  std::array<Vec3, slotCount> dSpring;
+};
+
+// Rim directions of the four slots of an end: slot k's rim point is
+// endCentre - R * dir[k]. dir[0] points "up" within the end's plane, so
+// slot 0 is the lowest rim point. When the axis is vertical every rim point
+// is equally low and body x is used.
+std::array<Vec3, slotsPerEnd> slotDirections(const Mat3& worldFromBody) {
+  const Vec3 a = worldFromBody.col(2);
+  const Vec3 h = up() - a.z() * a;
+  const double hn = h.norm();
+  const Vec3 d = hn > 1e-12 ? Vec3(h / hn) : Vec3(worldFromBody.col(0));
+  const Vec3 side = a.cross(d);
+  return {d, side, -d, -side};
+}
+
+// Forces at one instant. With `commit`, the friction springs of `s` are first
+// brought back within their Coulomb limit (Cundall-Strack truncation) and
+// their slide flags updated; RK4's later stages evaluate without it.
+Deriv evaluate(const Params& p, State& s, bool commit, ContactReport* report) {
+  const Mat3 rot = s.orientation.toRotationMatrix();
+  const Vec3 axis = rot.col(2);
+  const Vec3 spin = rot * s.spinBody;
+  const double m = p.inertia.mass;
+  const double halfL = p.body.length / 2;
+  const double radius = p.body.outerRadius;
+
+  Vec3 force(0, 0, -m * p.gravity);
+  Vec3 torque = Vec3::Zero();
+  double normalSum = 0;
+  Deriv d;
+  const auto dirs = slotDirections(rot);
+
+  // Contacts: normal spring-damper on penetration, friction stick spring.
+  for (int e = 0; e < 2; ++e) {
+    const double sign = e == 0 ? 1.0 : -1.0;
+    const Vec3 endCentre = s.position + sign * halfL * axis;
+    for (int k = 0; k < slotsPerEnd; ++k) {
+      const int i = e * slotsPerEnd + k;
+      SlotState& slot = s.slots[i];
+      const Vec3 point = endCentre - radius * dirs[k];
+      d.dSpring[i] = Vec3::Zero();
+      if (report) {
+        report->point[i] = point;
+        report->normalForce[i] = 0;
+        report->slipSpeed[i] = 0;
+      }
+      const double depth = -point.z();
+      if (depth <= 0) {
+        if (commit) slot = SlotState{};
+        continue;
+      }
+      const Vec3 lever = point - s.position;
+      const Vec3 pointVelocity = s.velocity + spin.cross(lever);
+      const double normal = std::max(0.0, p.normalStiffness * depth - p.normalDamping * pointVelocity.z());
+      const Vec3 slip(pointVelocity.x(), pointVelocity.y(), 0);
+      if (commit) {
+        const double limit = (slot.sliding ? p.frictionKinetic : p.frictionStatic) * normal;
+        const double springForce = p.tangentStiffness * slot.spring.norm();
+        slot.sliding = springForce > limit;
+        if (slot.sliding) slot.spring *= p.frictionKinetic * normal / springForce;
+      }
+      Vec3 friction = -p.tangentStiffness * slot.spring - p.tangentDamping * slip;
+      const double frictionLimit = (slot.sliding ? p.frictionKinetic : p.frictionStatic) * normal;
+      const double frictionNorm = friction.norm();
+      if (frictionNorm > frictionLimit) friction *= frictionNorm > 0 ? frictionLimit / frictionNorm : 0.0;
+      const Vec3 f = normal * up() + friction;
+      force += f;
+      torque += lever.cross(f);
+      normalSum += normal;
+      d.dSpring[i] = slip;
+      if (report) {
+        report->normalForce[i] = normal;
+        report->slipSpeed[i] = slip.norm();
+        if (normal > 0) ++(e == 0 ? report->activeA : report->activeB);
+      }
+    }
+  }
+
+  // Rolling resistance and pivot friction: couples proportional to the load,
+  // smoothed through zero angular speed.
+  if (normalSum > 0) {
+    const double eps2 = k::torqueSmoothing * k::torqueSmoothing;
+    const Vec3 rolling(spin.x(), spin.y(), 0);
+    torque -= p.rollingResistance * radius * normalSum * rolling / std::sqrt(rolling.squaredNorm() + eps2);
+    torque.z() -= p.pivotArm * normalSum * spin.z() / std::sqrt(spin.z() * spin.z() + eps2);
+  }
+
+  // Quadratic air drag on the centre's motion (projected area by direction)
+  // and on tumbling about a transverse axis.
+  const double speed = s.velocity.norm();
+  if (speed > 0 && p.dragLinear > 0) {
+    const double c = std::min(1.0, std::abs(axis.dot(s.velocity)) / speed);
+    const double area = 2 * radius * p.body.length * std::sqrt(1 - c * c) + k::pi * radius * radius * c;
+    force -= p.dragLinear * area * speed * s.velocity;
+  }
+  const Vec3 tumble = spin - spin.dot(axis) * axis;
+  torque -= p.dragTransverse * tumble.norm() * tumble;
+
+  // Newton-Euler in body axes: I dw/dt = tau - w x I w.
+  const Vec3 inertia = p.inertia.diagonal();
+  const Vec3 torqueBody = rot.transpose() * torque;
+  const Vec3 wb = s.spinBody;
+  d.dSpin = (torqueBody - wb.cross(inertia.cwiseProduct(wb))).cwiseQuotient(inertia);
+  const Quat q = s.orientation;
+  const Quat dq = q * Quat(0, wb.x(), wb.y(), wb.z());
+  d.dOrientation = 0.5 * Eigen::Vector4d(dq.w(), dq.x(), dq.y(), dq.z());
+  d.dPosition = s.velocity;
+  d.dVelocity = force / m;
+  return d;
+}
+
+// s + h * d, for the integrated parts of the state.
+State advanced(const State& s, const Deriv& d, double h) {
+  State r = s;
+  r.position += h * d.dPosition;
+  r.velocity += h * d.dVelocity;
+  r.spinBody += h * d.dSpin;
+  r.orientation.coeffs() += h * Eigen::Vector4d(d.dOrientation[1], d.dOrientation[2], d.dOrientation[3], d.dOrientation[0]);
+  r.orientation.normalize();
+  for (int i = 0; i < slotCount; ++i) r.slots[i].spring += h * d.dSpring[i];
+  return r;
+}
+
+}  // namespace
+
+std::string_view phaseName(Phase p) {
+  switch (p) {
+    case Phase::Sliding: return "sliding";
+    case Phase::RollingA: return "rolling_rim_A";
+    case Phase::RollingB: return "rolling_rim_B";
+    case Phase::LyingFlat: return "lying_flat";
+    case Phase::StandingEnd: return "standing_end";
+    case Phase::Airborne: return "airborne";
+    case Phase::AtRest: return "at_rest";
+  }
+  return "sliding";
+}
+
+double ContactReport::totalNormal() const {
+  double n = 0;
+  for (double f : normalForce) n += f;
+  return n;
+}
+
+double ContactReport::maxSlip() const {
+  double v = 0;
+  for (int i = 0; i < slotCount; ++i)
+    if (normalForce[i] > 0) v = std::max(v, slipSpeed[i]);
+  return v;
+}
+
+Params makeParams(const Scenario& s) {
+  Params p;
+  p.body = cylinderOf(s.body);
+  p.inertia = massProperties(p.body);
+  p.frictionStatic = s.surface.frictionStatic;
+  p.frictionKinetic = s.surface.frictionKinetic;
+  p.rollingResistance = s.surface.rollingResistance;
+  p.pivotArm = s.surface.pivotFriction;
+  p.dragLinear = 0.5 * k::airDensity * s.surface.airDrag;
+  // Tumbling drag: the side (D x L) and the faces (pi R^2) sweeping broadside,
+  // integrated over the body: rho C_d (D L^4 / 64 + 4 R^5 / 15).
+  const double R = p.body.outerRadius, L = p.body.length;
+  p.dragTransverse = k::airDensity * s.surface.airDrag * (2 * R * std::pow(L, 4) / 64 + 4 * std::pow(R, 5) / 15);
+  // Contact: the body's mass on a spring of the chosen natural frequency; the
+  // damping ratio gives the chosen restitution for a linear spring-damper
+  // (zeta = -ln e / sqrt(pi^2 + ln^2 e)).
+  const double m = p.inertia.mass;
+  const double w = s.contact.frequency;
+  const double lnE = std::log(s.surface.restitution);
+  const double zeta = -lnE / std::sqrt(k::pi * k::pi + lnE * lnE);
+  p.normalStiffness = m * w * w;
+  p.normalDamping = 2 * zeta * m * w;
+  // Tangential stick spring: 0.8 of the normal stiffness (Mindlin's ratio
+  // 2(1-nu)/(2-nu) for nu ~ 0.33; from memory), damped at half critical.
+  p.tangentStiffness = 0.8 * p.normalStiffness;
+  p.tangentDamping = 2 * 0.5 * std::sqrt(p.tangentStiffness * m);
+  p.timeStep = s.run.timeStep;
+  p.gravity = k::gravity;
+  return p;
+}
+
+ContactReport contacts(const Params& p, const State& s) {
+  ContactReport r;
+  State copy = s;
+  evaluate(p, copy, false, &r);
+  return r;
+}
+
+Phase classify(const Params& p, const State& s, const ContactReport& c) {
+  if (c.activeA + c.activeB == 0) return Phase::Airborne;
+  const double spin = s.spinBody.norm();
+  if (s.velocity.norm() < k::restSpeed && spin < k::restSpin) return Phase::AtRest;
+  if (c.maxSlip() > k::rollingSlip) return Phase::Sliding;
+  if (c.activeA > 0 && c.activeB > 0) return Phase::LyingFlat;
+  if (c.activeA >= 3 || c.activeB >= 3) return Phase::StandingEnd;
+  (void)p;
+  return c.activeA > 0 ? Phase::RollingA : Phase::RollingB;
+}
+
+ContactReport step(const Params& p, State& s) {
+  ContactReport report;
+  const double h = p.timeStep;
+  const Deriv k1 = evaluate(p, s, true, &report);
+  State s2 = advanced(s, k1, h / 2);
+  const Deriv k2 = evaluate(p, s2, false, nullptr);
+  State s3 = advanced(s, k2, h / 2);
+  const Deriv k3 = evaluate(p, s3, false, nullptr);
+  State s4 = advanced(s, k3, h);
+  const Deriv k4 = evaluate(p, s4, false, nullptr);
+  Deriv sum;
+  sum.dPosition = (k1.dPosition + 2 * k2.dPosition + 2 * k3.dPosition + k4.dPosition) / 6;
+  sum.dVelocity = (k1.dVelocity + 2 * k2.dVelocity + 2 * k3.dVelocity + k4.dVelocity) / 6;
+  sum.dSpin = (k1.dSpin + 2 * k2.dSpin + 2 * k3.dSpin + k4.dSpin) / 6;
+  sum.dOrientation = (k1.dOrientation + 2 * k2.dOrientation + 2 * k3.dOrientation + k4.dOrientation) / 6;
+  for (int i = 0; i < slotCount; ++i)
+    sum.dSpring[i] = (k1.dSpring[i] + 2 * k2.dSpring[i] + 2 * k3.dSpring[i] + k4.dSpring[i]) / 6;
+  s = advanced(s, sum, h);
+  s.t += h;
+  return report;
+}
+
+double energy(const Params& p, const State& s) {
+  const Vec3 inertia = p.inertia.diagonal();
+  double e = 0.5 * p.inertia.mass * s.velocity.squaredNorm() +
+             0.5 * s.spinBody.dot(inertia.cwiseProduct(s.spinBody)) +
+             p.inertia.mass * p.gravity * s.position.z();
+  const ContactReport c = contacts(p, s);
+  for (int i = 0; i < slotCount; ++i) {
+    const double depth = -c.point[i].z();
+    if (depth > 0) e += 0.5 * p.normalStiffness * depth * depth;
+    e += 0.5 * p.tangentStiffness * s.slots[i].spring.squaredNorm();
+  }
+  return e;
+}
+
+bool healthy(const State& s) {
+  const bool finite = s.position.allFinite() && s.velocity.allFinite() && s.spinBody.allFinite() &&
+                      s.orientation.coeffs().allFinite() && std::isfinite(s.t);
+  return finite && s.velocity.norm() < k::runawaySpeed && s.spinBody.norm() < 1e4;
+}
+
+}  // namespace dm

@@ -1,0 +1,26 @@
+// File output: every file is written atomically (a temporary file in the
+// same folder, then a rename), and output folders are never silently mixed.
+#pragma once
+#include <stdexcept>
+#include <string>
+
+namespace dm {
+
+class OutputError : public std::runtime_error {
+ public:
+  using std::runtime_error::runtime_error;
+};
+
+/// Writes `content` to `path` through a temporary file and a rename, so a
+/// reader sees the old file or the whole new one, never a part.
+void writeFileAtomic(const std::string& path, const std::string& content);
+
+/// Makes `dir` ready for new results: creates it if missing; refuses
+/// (OutputError) if it exists and is not empty, unless `force`.
+void prepareOutputDir(const std::string& dir, bool force);
+
+/// Formats a number for text outputs: `digits` significant digits, no NaN or
+/// infinity (those throw std::domain_error: they must never reach a file).
+std::string fmt(double v, int digits = 9);
+
+}  // namespace dm

@@ -1,0 +1,568 @@
+#include "core/scenario.hpp"
+
+#include <cmath>
+#include <cstdio>
+#include <fstream>
+#include <limits>
+#include <map>
+#include <set>
+#include <sstream>
+
+#include "core/colour.hpp"
+#include "core/constants.hpp"
+
+namespace dm {
+
+namespace {
+
+using json = nlohmann::json;
+
+// ---- field constructors --------------------------------------------------
+
+// A number stored in SI at `ref`, shown in file units: file = SI / toSI.
+template <class T>
+Field<T> number(std::string path, std::string unit, double min, double max, double toSI,
+                double& (*ref)(T&), std::string help, bool required = false) {
+  Field<T> f;
+  f.path = std::move(path);
+  f.type = FieldType::Number;
+  f.unit = std::move(unit);
+  f.min = min;
+  f.max = max;
+  f.required = required;
+  f.help = std::move(help);
+  f.getNumber = [ref, toSI](const T& s) { return ref(const_cast<T&>(s)) / toSI; };
+  f.setNumber = [ref, toSI](T& s, double v) { ref(s) = v * toSI; };
+  return f;
+}
+
+template <class T>
+Field<T> text(std::string path, FieldType type, std::vector<std::string> choices,
+              std::function<std::string(const T&)> get, std::function<void(T&, const std::string&)> set,
+              std::string help, bool required = false) {
+  Field<T> f;
+  f.path = std::move(path);
+  f.type = type;
+  f.unit = "-";
+  f.choices = std::move(choices);
+  f.required = required;
+  f.help = std::move(help);
+  f.getText = std::move(get);
+  f.setText = std::move(set);
+  return f;
+}
+
+template <class T>
+Field<T> colour(std::string path, Rgb& (*ref)(T&), std::string help) {
+  return text<T>(
+      std::move(path), FieldType::Colour, {},
+      [ref](const T& s) { return hexFromRgb(ref(const_cast<T&>(s))); },
+      [ref](T& s, const std::string& v) { ref(s) = rgbFromHex(v); }, std::move(help));
+}
+
+End endFromName(const std::string& s) { return s == "B" ? End::B : End::A; }
+
+constexpr double mm = 1e-3;
+constexpr double deg = k::degree;
+constexpr double revS = k::twoPi;
+constexpr double hz = k::twoPi;
+
+std::vector<Field<Scenario>> buildScenarioFields() {
+  using S = Scenario;
+  std::vector<Field<S>> f;
+  f.push_back(text<S>("name", FieldType::Text, {}, [](const S& s) { return s.name; },
+                      [](S& s, const std::string& v) { s.name = v; }, "short name of the design"));
+  f.push_back(text<S>("description", FieldType::Text, {}, [](const S& s) { return s.description; },
+                      [](S& s, const std::string& v) { s.description = v; }, "free text"));
+  // body
+  f.push_back(text<S>(
+      "body.shape", FieldType::Choice, {"tube", "rod", "ring", "disk"},
+      [](const S& s) { return std::string(shapeName(s.body.shape)); },
+      [](S& s, const std::string& v) {
+        s.body.shape = v == "rod" ? Shape::Rod : v == "ring" ? Shape::Ring : v == "disk" ? Shape::Disk : Shape::Tube;
+      },
+      "tube and ring are hollow, rod and disk solid; tube and rod are longer than wide", true));
+  f.push_back(number<S>("body.length_mm", "mm", 0.2, 1000, mm, [](S& s) -> double& { return s.body.length; },
+                        "length along the axis", true));
+  f.push_back(number<S>("body.outer_diameter_mm", "mm", 1, 500, mm,
+                        [](S& s) -> double& { return s.body.outerDiameter; }, "outer diameter D", true));
+  f.push_back(number<S>("body.wall_mm", "mm", 0.05, 250, mm, [](S& s) -> double& { return s.body.wall; },
+                        "wall thickness of a tube or ring (less than the outer radius)"));
+  f.push_back(number<S>("body.density_kg_m3", "kg/m^3", 10, 25000, 1,
+                        [](S& s) -> double& { return s.body.density; }, "material density (used unless mass_g is set)"));
+  f.push_back(number<S>("body.mass_g", "g", 0, 10000, 1e-3, [](S& s) -> double& { return s.body.mass; },
+                        "mass; 0 derives it from the density"));
+  f.push_back(colour<S>("body.colour", [](S& s) -> Rgb& { return s.paint.body; }, "unpainted body colour, sRGB hex"));
+  f.push_back(colour<S>("body.bore_colour", [](S& s) -> Rgb& { return s.paint.bore; }, "bore colour, sRGB hex"));
+  // surface
+  f.push_back(text<S>("surface.name", FieldType::Text, {}, [](const S& s) { return s.surface.name; },
+                      [](S& s, const std::string& v) { s.surface.name = v; }, "name of the table surface"));
+  f.push_back(number<S>("surface.friction_static", "-", 0, 2, 1,
+                        [](S& s) -> double& { return s.surface.frictionStatic; }, "Coulomb static friction coefficient", true));
+  f.push_back(number<S>("surface.friction_kinetic", "-", 0, 2, 1,
+                        [](S& s) -> double& { return s.surface.frictionKinetic; },
+                        "Coulomb kinetic friction coefficient (at most the static one)", true));
+  f.push_back(number<S>("surface.rolling_resistance", "-", 0, 0.1, 1,
+                        [](S& s) -> double& { return s.surface.rollingResistance; },
+                        "rolling resistance coefficient: torque c_rr * N * R against rolling"));
+  f.push_back(number<S>("surface.pivot_friction_mm", "mm", 0, 5, mm,
+                        [](S& s) -> double& { return s.surface.pivotFriction; },
+                        "arm of the drilling (pivot) friction torque N * arm"));
+  f.push_back(number<S>("surface.air_drag_coefficient", "-", 0, 3, 1,
+                        [](S& s) -> double& { return s.surface.airDrag; }, "quadratic air drag coefficient C_d"));
+  f.push_back(number<S>("surface.restitution", "-", 0.05, 0.95, 1,
+                        [](S& s) -> double& { return s.surface.restitution; }, "normal coefficient of restitution"));
+  f.push_back(colour<S>("surface.colour", [](S& s) -> Rgb& { return s.surface.colour; }, "table colour, sRGB hex"));
+  f.push_back(number<S>("surface.grid_mm", "mm", 0, 100, mm, [](S& s) -> double& { return s.surface.gridSpacing; },
+                        "spacing of the drawn table grid; 0 for none"));
+  f.push_back(number<S>("surface.table_radius_mm", "mm", 50, 5000, mm,
+                        [](S& s) -> double& { return s.surface.tableRadius; }, "radius of the round table top"));
+  // launch
+  f.push_back(text<S>("launch.pressed_end", FieldType::Choice, {"A", "B"},
+                      [](const S& s) { return std::string(endName(s.launch.pressedEnd)); },
+                      [](S& s, const std::string& v) { s.launch.pressedEnd = endFromName(v); },
+                      "the end the visitor presses down", true));
+  f.push_back(number<S>("launch.revolution_rev_s", "rev/s", 0, 50, revS,
+                        [](S& s) -> double& { return s.launch.revolution; }, "vertical spin at release", true));
+  f.push_back(number<S>("launch.backspin", "-", 0, 2, 1, [](S& s) -> double& { return s.launch.backspin; },
+                        "axial spin at release; 1 puts the pressed end's top point at rest, 0 is none"));
+  f.push_back(number<S>("launch.tilt_deg", "deg", 0, 90, deg, [](S& s) -> double& { return s.launch.tilt; },
+                        "initial tilt of the axis, pressed end down"));
+  f.push_back(number<S>("launch.drift_mm_s", "mm/s", 0, 2000, mm, [](S& s) -> double& { return s.launch.drift; },
+                        "sideways speed of the centre at release"));
+  {
+    Field<S> seed;
+    seed.path = "launch.seed";
+    seed.type = FieldType::Integer;
+    seed.unit = "-";
+    seed.min = 0;
+    seed.max = 9007199254740991.0;  // 2^53 - 1: every integer a JSON double holds exactly
+    seed.help = "seed of the random launch draws";
+    seed.getNumber = [](const S& s) { return double(s.launch.seed); };
+    seed.setNumber = [](S& s, double v) { s.launch.seed = std::uint64_t(v); };
+    f.push_back(seed);
+  }
+  // run and numerics
+  f.push_back(number<S>("run.duration_s", "s", 0.01, 600, 1, [](S& s) -> double& { return s.run.duration; },
+                        "simulated time", true));
+  f.push_back(number<S>("run.time_step_us", "us", 5, 1000, 1e-6, [](S& s) -> double& { return s.run.timeStep; },
+                        "integrator step (RK4)"));
+  f.push_back(number<S>("run.sample_ms", "ms", 0.05, 100, 1e-3,
+                        [](S& s) -> double& { return s.run.sampleInterval; }, "trajectory.csv row spacing"));
+  f.push_back(number<S>("contact.frequency_hz", "Hz", 50, 2000, hz,
+                        [](S& s) -> double& { return s.contact.frequency; },
+                        "natural frequency of the body resting on its contact (sets the stiffness)"));
+  // observer
+  f.push_back(text<S>("observer.view", FieldType::Choice, {"top", "visitor"},
+                      [](const S& s) { return std::string(s.observer.view == ViewKind::Top ? "top" : "visitor"); },
+                      [](S& s, const std::string& v) { s.observer.view = v == "visitor" ? ViewKind::Visitor : ViewKind::Top; },
+                      "top-down orthographic view or a visitor's eye"));
+  f.push_back(text<S>("observer.mode", FieldType::Choice, {"camera", "eye"},
+                      [](const S& s) { return std::string(s.observer.mode == ExposureMode::Eye ? "eye" : "camera"); },
+                      [](S& s, const std::string& v) { s.observer.mode = v == "camera" ? ExposureMode::Camera : ExposureMode::Eye; },
+                      "box-shutter camera or the eye's temporal response"));
+  f.push_back(number<S>("observer.start_s", "s", 0, 600, 1, [](S& s) -> double& { return s.observer.start; },
+                        "time the exposure starts"));
+  f.push_back(number<S>("observer.exposure_s", "s", 0.001, 10, 1, [](S& s) -> double& { return s.observer.exposure; },
+                        "exposure time (camera) or integration window (eye)"));
+  f.push_back(number<S>("observer.eye_height_mm", "mm", 10, 3000, mm,
+                        [](S& s) -> double& { return s.observer.eyeHeight; }, "visitor's eye above the table top"));
+  f.push_back(number<S>("observer.eye_distance_mm", "mm", 0, 5000, mm,
+                        [](S& s) -> double& { return s.observer.eyeDistance; }, "horizontal distance of the eye from the spin centre"));
+  f.push_back(number<S>("observer.eye_azimuth_deg", "deg", -360, 360, deg,
+                        [](S& s) -> double& { return s.observer.eyeAzimuth; }, "azimuth of the eye about the spin centre"));
+  f.push_back(number<S>("observer.field_of_view_deg", "deg", 1, 120, deg,
+                        [](S& s) -> double& { return s.observer.fieldOfView; }, "visitor view field of view"));
+  f.push_back(number<S>("observer.view_span_mm", "mm", 10, 2000, mm,
+                        [](S& s) -> double& { return s.observer.viewSpan; }, "top view: width of the table region shown"));
+  {
+    Field<S> size;
+    size.path = "observer.image_size_px";
+    size.type = FieldType::Integer;
+    size.unit = "px";
+    size.min = 16;
+    size.max = 4096;
+    size.help = "image width and height";
+    size.getNumber = [](const S& s) { return double(s.observer.imageSize); };
+    size.setNumber = [](S& s, double v) { s.observer.imageSize = int(v); };
+    f.push_back(size);
+  }
+  f.push_back(number<S>("observer.spot_threshold", "-", 0.001, 1, 1,
+                        [](S& s) -> double& { return s.observer.spotThreshold; }, "Weber contrast a spot must exceed"));
+  // lighting
+  f.push_back(number<S>("lighting.ambient", "-", 0, 1, 1, [](S& s) -> double& { return s.lighting.ambient; },
+                        "ambient light level"));
+  f.push_back(number<S>("lighting.key_intensity", "-", 0, 2, 1,
+                        [](S& s) -> double& { return s.lighting.keyIntensity; }, "directional light level"));
+  f.push_back(number<S>("lighting.key_elevation_deg", "deg", 0, 90, deg,
+                        [](S& s) -> double& { return s.lighting.keyElevation; }, "directional light elevation"));
+  f.push_back(number<S>("lighting.key_azimuth_deg", "deg", -360, 360, deg,
+                        [](S& s) -> double& { return s.lighting.keyAzimuth; }, "directional light azimuth"));
+  f.push_back(text<S>(
+      "lighting.flicker", FieldType::Choice, {"none", "sine", "rectified_mains"},
+      [](const S& s) {
+        return std::string(s.lighting.flicker == Waveform::None ? "none"
+                           : s.lighting.flicker == Waveform::Sine ? "sine" : "rectified_mains");
+      },
+      [](S& s, const std::string& v) {
+        s.lighting.flicker = v == "sine" ? Waveform::Sine : v == "rectified_mains" ? Waveform::RectifiedMains : Waveform::None;
+      },
+      "light modulation waveform"));
+  f.push_back(number<S>("lighting.flicker_frequency_hz", "Hz", 1, 10000, 1,
+                        [](S& s) -> double& { return s.lighting.flickerFrequency; },
+                        "modulation frequency (rectified mains: twice the line frequency)"));
+  f.push_back(number<S>("lighting.flicker_depth", "-", 0, 1, 1,
+                        [](S& s) -> double& { return s.lighting.flickerDepth; }, "modulation depth (Michelson)"));
+  return f;
+}
+
+std::vector<Field<Marking>> buildMarkingFields() {
+  using M = Marking;
+  std::vector<Field<M>> f;
+  f.push_back(text<M>(
+      "kind", FieldType::Choice, {"band", "rim_patch", "stripe", "dot"},
+      [](const M& m) { return std::string(markingKindName(m.kind)); },
+      [](M& m, const std::string& v) {
+        m.kind = v == "band" ? MarkingKind::Band : v == "stripe" ? MarkingKind::Stripe
+               : v == "dot" ? MarkingKind::Dot : MarkingKind::RimPatch;
+      },
+      "band all round an end, patch on an end's rim, stripe along the length, or dot", true));
+  f.push_back(colour<M>("colour", [](M& m) -> Rgb& { return m.colour; }, "sRGB hex"));
+  f.push_back(text<M>("end", FieldType::Choice, {"A", "B"}, [](const M& m) { return std::string(endName(m.end)); },
+                      [](M& m, const std::string& v) { m.end = endFromName(v); }, "band, rim_patch: which end"));
+  f.push_back(number<M>("width_mm", "mm", 0.05, 1000, mm, [](M& m) -> double& { return m.width; },
+                        "band, rim_patch: extent from the end edge"));
+  f.push_back(number<M>("from_deg", "deg", -360, 360, deg, [](M& m) -> double& { return m.fromAngle; },
+                        "rim_patch: start azimuth"));
+  f.push_back(number<M>("to_deg", "deg", -360, 360, deg, [](M& m) -> double& { return m.toAngle; },
+                        "rim_patch: end azimuth, counter-clockwise from from_deg"));
+  f.push_back(number<M>("angle_deg", "deg", -360, 360, deg, [](M& m) -> double& { return m.angle; },
+                        "stripe, dot: centre azimuth"));
+  f.push_back(number<M>("arc_width_deg", "deg", 0.1, 360, deg, [](M& m) -> double& { return m.arcWidth; },
+                        "stripe: angular width"));
+  f.push_back(number<M>("axial_mm", "mm", -500, 500, mm, [](M& m) -> double& { return m.axial; },
+                        "dot: position along the axis from the centre (towards end A)"));
+  f.push_back(number<M>("radius_mm", "mm", 0.05, 250, mm, [](M& m) -> double& { return m.radius; }, "dot: radius"));
+  return f;
+}
+
+std::string describe(double v) {
+  std::ostringstream o;
+  o.precision(10);
+  o << v;
+  return o.str();
+}
+
+std::string rangeText(double lo, double hi, const std::string& unit) {
+  return "allowed " + describe(lo) + " to " + describe(hi) + (unit == "-" ? "" : " " + unit);
+}
+
+template <class T>
+void checkRange(const Field<T>& f, const T& s, const std::string& prefix) {
+  if (f.type != FieldType::Number && f.type != FieldType::Integer) return;
+  const double v = f.getNumber(s);
+  if (!std::isfinite(v) || v < f.min || v > f.max)
+    throw ScenarioError(prefix + f.path, "value " + describe(v) + " is out of range; " + rangeText(f.min, f.max, f.unit));
+}
+
+// Sets one field from a JSON value, checking its type and range.
+template <class T>
+void setFromJson(const Field<T>& f, T& target, const json& v, const std::string& path) {
+  switch (f.type) {
+    case FieldType::Number:
+    case FieldType::Integer: {
+      if (!v.is_number())
+        throw ScenarioError(path, "expected a number (" + f.unit + "), got " + v.dump());
+      const double x = v.get<double>();
+      if (f.type == FieldType::Integer && (std::floor(x) != x))
+        throw ScenarioError(path, "expected a whole number, got " + v.dump());
+      if (!(x >= f.min && x <= f.max))
+        throw ScenarioError(path, "value " + v.dump() + " is out of range; " + rangeText(f.min, f.max, f.unit));
+      f.setNumber(target, x);
+      return;
+    }
+    case FieldType::Choice: {
+      if (!v.is_string()) throw ScenarioError(path, "expected a string, got " + v.dump());
+      const std::string s = v.get<std::string>();
+      bool ok = false;
+      std::string options;
+      for (const auto& c : f.choices) {
+        ok = ok || c == s;
+        options += (options.empty() ? "" : ", ") + c;
+      }
+      if (!ok) throw ScenarioError(path, "value \"" + s + "\" is not one of: " + options);
+      f.setText(target, s);
+      return;
+    }
+    case FieldType::Colour: {
+      if (!v.is_string()) throw ScenarioError(path, "expected an sRGB colour \"#rrggbb\", got " + v.dump());
+      try {
+        f.setText(target, v.get<std::string>());
+      } catch (const std::invalid_argument&) {
+        throw ScenarioError(path, "value " + v.dump() + " is not an sRGB colour \"#rrggbb\"");
+      }
+      return;
+    }
+    case FieldType::Text:
+      if (!v.is_string()) throw ScenarioError(path, "expected a string, got " + v.dump());
+      f.setText(target, v.get<std::string>());
+      return;
+  }
+}
+
+template <class T>
+json fieldToJson(const Field<T>& f, const T& s) {
+  switch (f.type) {
+    case FieldType::Number: return f.getNumber(s);
+    case FieldType::Integer: return std::int64_t(f.getNumber(s));
+    default: return f.getText(s);
+  }
+}
+
+// Sets doc at a dotted path (creating objects; digits index arrays).
+json& atPath(json& doc, const std::string& path) {
+  json* node = &doc;
+  std::stringstream ss(path);
+  std::string part;
+  while (std::getline(ss, part, '.')) {
+    if (!part.empty() && std::all_of(part.begin(), part.end(), ::isdigit)) {
+      const std::size_t i = std::stoul(part);
+      if (!node->is_array() || i >= node->size())
+        throw ScenarioError(path, "no element " + part + " here");
+      node = &(*node)[i];
+    } else {
+      if (node->is_null()) *node = json::object();
+      if (!node->is_object()) throw ScenarioError(path, "\"" + part + "\" is not inside an object");
+      node = &(*node)[part];
+    }
+  }
+  return *node;
+}
+
+template <class T>
+const Field<T>* findIn(const std::vector<Field<T>>& fields, const std::string& path) {
+  for (const auto& f : fields)
+    if (f.path == path) return &f;
+  return nullptr;
+}
+
+// Parses the bare text of a --set value into JSON by the field's type.
+template <class T>
+json parseOverrideValue(const Field<T>& f, const std::string& value, const std::string& path) {
+  if (f.type == FieldType::Number || f.type == FieldType::Integer) {
+    char* end = nullptr;
+    const double x = std::strtod(value.c_str(), &end);
+    if (value.empty() || end != value.c_str() + value.size() || !std::isfinite(x))
+      throw ScenarioError(path, "expected a number (" + f.unit + "), got \"" + value + "\"");
+    if (f.type == FieldType::Integer) return std::int64_t(x) == x ? json(std::int64_t(x)) : json(x);
+    return x;
+  }
+  std::string v = value;
+  if (v.size() >= 2 && v.front() == '"' && v.back() == '"') v = v.substr(1, v.size() - 2);
+  return v;
+}
+
+}  // namespace
+
+const std::vector<Field<Scenario>>& scenarioFields() {
+  static const std::vector<Field<Scenario>> fields = buildScenarioFields();
+  return fields;
+}
+
+const std::vector<Field<Marking>>& markingFields() {
+  static const std::vector<Field<Marking>> fields = buildMarkingFields();
+  return fields;
+}
+
+const Field<Scenario>* findField(const std::string& path) { return findIn(scenarioFields(), path); }
+
+Cylinder cylinderOf(const BodySpec& b) {
+  Cylinder c;
+  c.length = b.length;
+  c.outerRadius = b.outerDiameter / 2;
+  c.innerRadius = isHollow(b.shape) ? std::max(0.0, c.outerRadius - b.wall) : 0.0;
+  c.mass = b.mass > 0 ? b.mass : b.density * materialVolume(c);
+  return c;
+}
+
+Scenario defaultScenario() {
+  Scenario s;
+  // A demo-like marked tube: patches on both rims.
+  Marking a;
+  a.kind = MarkingKind::RimPatch;
+  a.end = End::A;
+  a.colour = rgbFromHex("#d2372d");
+  a.fromAngle = 0;
+  a.toAngle = 25 * k::degree;
+  Marking b = a;
+  b.end = End::B;
+  b.colour = rgbFromHex("#2d6fd2");
+  s.paint.markings = {a, b};
+  return s;
+}
+
+void validate(const Scenario& s) {
+  for (const auto& f : scenarioFields()) checkRange(f, s, "");
+  const BodySpec& b = s.body;
+  const bool hollow = isHollow(b.shape);
+  if (hollow && !(b.wall < b.outerDiameter / 2))
+    throw ScenarioError("body.wall_mm", "value " + describe(b.wall / mm) + " must be less than the outer radius " +
+                                            describe(b.outerDiameter / 2 / mm) + " mm");
+  const bool flat = b.shape == Shape::Ring || b.shape == Shape::Disk;
+  if (flat && b.length > b.outerDiameter)
+    throw ScenarioError("body.length_mm", "a " + std::string(shapeName(b.shape)) + " is no longer than its diameter: " +
+                                              describe(b.length / mm) + " mm > " + describe(b.outerDiameter / mm) +
+                                              " mm; use tube or rod, or a shorter length");
+  if (!flat && b.length <= b.outerDiameter)
+    throw ScenarioError("body.length_mm", "a " + std::string(shapeName(b.shape)) + " is longer than its diameter: " +
+                                              describe(b.length / mm) + " mm <= " + describe(b.outerDiameter / mm) +
+                                              " mm; use ring or disk, or a longer length");
+  if (s.surface.frictionKinetic > s.surface.frictionStatic)
+    throw ScenarioError("surface.friction_kinetic", "value " + describe(s.surface.frictionKinetic) +
+                                                        " exceeds surface.friction_static " +
+                                                        describe(s.surface.frictionStatic) + "; allowed 0 to the static value");
+  if (s.run.sampleInterval < s.run.timeStep)
+    throw ScenarioError("run.sample_ms", "value " + describe(s.run.sampleInterval / 1e-3) +
+                                             " ms is shorter than run.time_step_us " + describe(s.run.timeStep / 1e-6) + " us");
+  for (std::size_t i = 0; i < s.paint.markings.size(); ++i) {
+    const Marking& m = s.paint.markings[i];
+    const std::string prefix = "markings." + std::to_string(i) + ".";
+    for (const auto& f : markingFields()) checkRange(f, m, prefix);
+    if (m.kind == MarkingKind::Dot && std::abs(m.axial) > b.length / 2)
+      throw ScenarioError(prefix + "axial_mm", "value " + describe(m.axial / mm) + " is off the body; allowed " +
+                                                   rangeText(-b.length / 2 / mm, b.length / 2 / mm, "mm").substr(8));
+  }
+}
+
+Scenario scenarioFromJson(const json& doc) {
+  if (!doc.is_object()) throw ScenarioError("(document)", "a scenario is a JSON object, got " + std::string(doc.type_name()));
+  // Version policy: version 1 is the only format so far; a file without a
+  // version or from a newer dwellmark is refused rather than guessed at.
+  if (!doc.contains("dwellmark_scenario"))
+    throw ScenarioError("dwellmark_scenario", "missing; a scenario file starts with \"dwellmark_scenario\": " +
+                                                  std::to_string(scenarioFormatVersion));
+  const json& version = doc["dwellmark_scenario"];
+  if (!version.is_number_integer() || version.get<int>() < 1 || version.get<int>() > scenarioFormatVersion)
+    throw ScenarioError("dwellmark_scenario", "version " + version.dump() + " is not supported; this build reads version " +
+                                                  std::to_string(scenarioFormatVersion));
+
+  Scenario s = defaultScenario();
+  std::set<std::string> seen;
+  // Walk every leaf; each must be a known field.
+  std::function<void(const json&, const std::string&)> walk = [&](const json& node, const std::string& prefix) {
+    for (auto it = node.begin(); it != node.end(); ++it) {
+      const std::string path = prefix.empty() ? it.key() : prefix + "." + it.key();
+      if (path == "dwellmark_scenario") continue;
+      if (path == "markings") {
+        if (!it->is_array()) throw ScenarioError(path, "expected an array of markings");
+        s.paint.markings.clear();
+        for (std::size_t i = 0; i < it->size(); ++i) {
+          const json& mj = (*it)[i];
+          const std::string mp = "markings." + std::to_string(i);
+          if (!mj.is_object()) throw ScenarioError(mp, "expected an object");
+          Marking m;
+          std::set<std::string> mseen;
+          for (auto mt = mj.begin(); mt != mj.end(); ++mt) {
+            const auto* f = findIn(markingFields(), mt.key());
+            if (!f) throw ScenarioError(mp + "." + mt.key(), "unknown key");
+            setFromJson(*f, m, *mt, mp + "." + mt.key());
+            mseen.insert(mt.key());
+          }
+          for (const auto& f : markingFields())
+            if (f.required && !mseen.count(f.path)) throw ScenarioError(mp + "." + f.path, "missing required field");
+          s.paint.markings.push_back(m);
+        }
+        seen.insert(path);
+        continue;
+      }
+      if (it->is_object()) {
+        walk(*it, path);
+        continue;
+      }
+      const auto* f = findField(path);
+      if (!f) throw ScenarioError(path, "unknown key");
+      setFromJson(*f, s, *it, path);
+      seen.insert(path);
+    }
+  };
+  walk(doc, "");
+  for (const auto& f : scenarioFields())
+    if (f.required && !seen.count(f.path)) throw ScenarioError(f.path, "missing required field");
+  if (isHollow(s.body.shape) && !seen.count("body.wall_mm"))
+    throw ScenarioError("body.wall_mm", "missing; a " + std::string(shapeName(s.body.shape)) + " needs its wall thickness");
+  if (!seen.count("body.density_kg_m3") && !seen.count("body.mass_g"))
+    throw ScenarioError("body.density_kg_m3", "missing; give body.density_kg_m3 or body.mass_g");
+  if (seen.count("body.density_kg_m3") && seen.count("body.mass_g") && s.body.mass > 0)
+    throw ScenarioError("body.mass_g", "give body.density_kg_m3 or body.mass_g, not both");
+  validate(s);
+  return s;
+}
+
+json scenarioToJson(const Scenario& s) {
+  json doc = json::object();
+  doc["dwellmark_scenario"] = scenarioFormatVersion;
+  for (const auto& f : scenarioFields()) {
+    if (f.path == "body.mass_g" && s.body.mass <= 0) continue;
+    if (f.path == "body.density_kg_m3" && s.body.mass > 0) continue;
+    if (f.path == "body.wall_mm" && !isHollow(s.body.shape)) continue;
+    atPath(doc, f.path) = fieldToJson(f, s);
+  }
+  json marks = json::array();
+  for (const Marking& m : s.paint.markings) {
+    json mj = json::object();
+    for (const auto& f : markingFields()) mj[f.path] = fieldToJson(f, m);
+    marks.push_back(mj);
+  }
+  doc["markings"] = marks;
+  return doc;
+}
+
+json readScenarioJson(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  if (!in) throw ScenarioError("(file)", "cannot read " + path);
+  std::stringstream buf;
+  buf << in.rdbuf();
+  try {
+    return json::parse(buf.str());
+  } catch (const json::parse_error& e) {
+    throw ScenarioError("(file)", path + " is not valid JSON: " + e.what());
+  }
+}
+
+Scenario loadScenario(const std::string& path) { return scenarioFromJson(readScenarioJson(path)); }
+
+void applyOverride(json& doc, const std::string& assignment) {
+  const auto eq = assignment.find('=');
+  if (eq == std::string::npos || eq == 0)
+    throw ScenarioError("--set", "expected key.path=value, got \"" + assignment + "\"");
+  const std::string path = assignment.substr(0, eq);
+  const std::string value = assignment.substr(eq + 1);
+  if (path.rfind("markings.", 0) == 0) {
+    const auto dot = path.find('.', 9);
+    if (dot == std::string::npos) throw ScenarioError(path, "expected markings.INDEX.key");
+    const auto* f = findIn(markingFields(), path.substr(dot + 1));
+    if (!f) throw ScenarioError(path, "unknown key");
+    atPath(doc, path) = parseOverrideValue(*f, value, path);
+    return;
+  }
+  const auto* f = findField(path);
+  if (!f) throw ScenarioError(path, "unknown key");
+  atPath(doc, path) = parseOverrideValue(*f, value, path);
+}
+
+Rgb rgbFromHex(const std::string& hex) {
+  if (hex.size() != 7 || hex[0] != '#') throw std::invalid_argument("colour");
+  for (std::size_t i = 1; i < 7; ++i)
+    if (!std::isxdigit(static_cast<unsigned char>(hex[i]))) throw std::invalid_argument("colour");
+  auto channel = [&](int i) { return srgbToLinear(std::stoi(hex.substr(1 + 2 * i, 2), nullptr, 16) / 255.0); };
+  return {channel(0), channel(1), channel(2)};
+}
+
+std::string hexFromRgb(const Rgb& c) {
+  auto byte = [](double v) { return int(std::lround(linearToSrgb(v) * 255.0)); };
+  char buf[8];
+  std::snprintf(buf, sizeof buf, "#%02x%02x%02x", byte(c.r), byte(c.g), byte(c.b));
+  return buf;
+}
+
+}  // namespace dm
