@@ -17,6 +17,17 @@ namespace {
 
 using json = nlohmann::json;
 
+std::string describe(double v) {
+  std::ostringstream o;
+  o.precision(10);
+  o << v;
+  return o.str();
+}
+
+std::string rangeText(double lo, double hi, const std::string& unit) {
+  return "allowed " + describe(lo) + " to " + describe(hi) + (unit == "-" ? "" : " " + unit);
+}
+
 // ---- field constructors --------------------------------------------------
 
 // A number stored in SI at `ref`, shown in file units: file = SI / toSI.
@@ -246,17 +257,6 @@ std::vector<Field<Marking>> buildMarkingFields() {
   return f;
 }
 
-std::string describe(double v) {
-  std::ostringstream o;
-  o.precision(10);
-  o << v;
-  return o.str();
-}
-
-std::string rangeText(double lo, double hi, const std::string& unit) {
-  return "allowed " + describe(lo) + " to " + describe(hi) + (unit == "-" ? "" : " " + unit);
-}
-
 template <class T>
 void checkRange(const Field<T>& f, const T& s, const std::string& prefix) {
   if (f.type != FieldType::Number && f.type != FieldType::Integer) return;
@@ -277,7 +277,7 @@ void setFromJson(const Field<T>& f, T& target, const json& v, const std::string&
       if (f.type == FieldType::Integer && (std::floor(x) != x))
         throw ScenarioError(path, "expected a whole number, got " + v.dump());
       if (!(x >= f.min && x <= f.max))
-        throw ScenarioError(path, "value " + v.dump() + " is out of range; " + rangeText(f.min, f.max, f.unit));
+        throw ScenarioError(path, "value " + describe(x) + " is out of range; " + rangeText(f.min, f.max, f.unit));
       f.setNumber(target, x);
       return;
     }
