@@ -156,10 +156,20 @@ std::vector<Field<Scenario>> buildScenarioFields() {
   // run and numerics
   f.push_back(number<S>("run.duration_s", "s", 0.01, 600, 1, [](S& s) -> double& { return s.run.duration; },
                         "simulated time", true));
-  f.push_back(number<S>("run.time_step_us", "us", 5, 1000, 1e-6, [](S& s) -> double& { return s.run.timeStep; },
-                        "integrator step (RK4)"));
   f.push_back(number<S>("run.sample_ms", "ms", 0.05, 100, 1e-3,
                         [](S& s) -> double& { return s.run.sampleInterval; }, "trajectory.csv row spacing"));
+  {
+    Field<S> sub;
+    sub.path = "run.substeps";
+    sub.type = FieldType::Integer;
+    sub.unit = "-";
+    sub.min = 1;
+    sub.max = 1000;
+    sub.help = "integrator (RK4) steps per row; the step is sample_ms / substeps";
+    sub.getNumber = [](const S& s) { return double(s.run.substeps); };
+    sub.setNumber = [](S& s, double v) { s.run.substeps = int(v); };
+    f.push_back(sub);
+  }
   f.push_back(number<S>("contact.frequency_hz", "Hz", 50, 2000, hz,
                         [](S& s) -> double& { return s.contact.frequency; },
                         "natural frequency of the body resting on its contact (sets the stiffness)"));
@@ -422,9 +432,13 @@ void validate(const Scenario& s) {
     throw ScenarioError("surface.friction_kinetic", "value " + describe(s.surface.frictionKinetic) +
                                                         " exceeds surface.friction_static " +
                                                         describe(s.surface.frictionStatic) + "; allowed 0 to the static value");
-  if (s.run.sampleInterval < s.run.timeStep)
-    throw ScenarioError("run.sample_ms", "value " + describe(s.run.sampleInterval / 1e-3) +
-                                             " ms is shorter than run.time_step_us " + describe(s.run.timeStep / 1e-6) + " us");
+  // The step must resolve the contact: at most a twentieth of its period.
+  const double step = s.run.timeStep(), longest = 0.05 * k::twoPi / s.contact.frequency;
+  if (step > longest)
+    throw ScenarioError("run.substeps", "value " + describe(s.run.substeps) + " gives a " + describe(step * 1e6) +
+                                            " us step, longer than a twentieth of the contact period (" +
+                                            describe(longest * 1e6) + " us); allowed at least " +
+                                            describe(std::ceil(s.run.sampleInterval / longest)));
   for (std::size_t i = 0; i < s.paint.markings.size(); ++i) {
     const Marking& m = s.paint.markings[i];
     const std::string prefix = "markings." + std::to_string(i) + ".";

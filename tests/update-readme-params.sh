@@ -2,8 +2,9 @@
 # Rewrites the README's parameter table from `dwellmark params` (run after
 # adding or changing a scenario field; test_docs checks they agree).
 set -euo pipefail
-cd "$(dirname "$0")/.."
-bin=${1:-build/app/dwellmark}
+root=$(cd "$(dirname "$0")/.." && pwd)
+bin=$(realpath "${1:-$root/build/app/dwellmark}")
+cd "$root"
 python3 - "$bin" <<'PY'
 import re, subprocess, sys
 table = subprocess.run([sys.argv[1], "params"], check=True, capture_output=True, text=True).stdout
