@@ -1,5 +1,6 @@
 #include "core/scenario.hpp"
 
+#include <charconv>
 #include <cmath>
 #include <cstdio>
 #include <fstream>
@@ -267,6 +268,17 @@ std::vector<Field<Marking>> buildMarkingFields() {
   return f;
 }
 
+// True when `text` can be written back into a JSON file: valid UTF-8 (a
+// --set value can hold any bytes; a parsed file cannot).
+bool isUtf8(const std::string& text) {
+  try {
+    (void)json(text).dump();
+    return true;
+  } catch (const json::type_error&) {
+    return false;
+  }
+}
+
 template <class T>
 void checkRange(const Field<T>& f, const T& s, const std::string& prefix) {
   if (f.type != FieldType::Number && f.type != FieldType::Integer) return;
@@ -315,6 +327,7 @@ void setFromJson(const Field<T>& f, T& target, const json& v, const std::string&
     }
     case FieldType::Text:
       if (!v.is_string()) throw ScenarioError(path, "expected a string, got " + v.dump());
+      if (!isUtf8(v.get<std::string>())) throw ScenarioError(path, "text is not valid UTF-8");
       f.setText(target, v.get<std::string>());
       return;
   }
@@ -336,8 +349,9 @@ json& atPath(json& doc, const std::string& path) {
   std::string part;
   while (std::getline(ss, part, '.')) {
     if (!part.empty() && std::all_of(part.begin(), part.end(), ::isdigit)) {
-      const std::size_t i = std::stoul(part);
-      if (!node->is_array() || i >= node->size())
+      std::size_t i = 0;
+      const auto [end, error] = std::from_chars(part.data(), part.data() + part.size(), i);
+      if (error != std::errc() || !node->is_array() || i >= node->size())
         throw ScenarioError(path, "no element " + part + " here");
       node = &(*node)[i];
     } else {
@@ -356,6 +370,108 @@ const Field<T>* findIn(const std::vector<Field<T>>& fields, const std::string& p
   return nullptr;
 }
 
+// Deepest nesting of objects and arrays a scenario text may have: the
+// format needs three; the bound keeps every recursive JSON routine shallow.
+constexpr std::size_t maxNesting = 32;
+
+// A SAX pass over a JSON text that stops at the first key given twice in one
+// object (with its dotted path, array items by index: "markings.1.end"), at
+// nesting deeper than maxNesting, or at a syntax error (json::parse then says
+// what is wrong).
+class StructureCheck : public nlohmann::json_sax<json> {
+ public:
+  std::string duplicate;  ///< dotted path of the first repeated key; empty if none
+  bool tooDeep = false;   ///< the nesting passed maxNesting ...
+  std::string deepPath;   ///< ... at this dotted path (cut to 200 characters)
+
+  bool null() override { return item(); }
+  bool boolean(bool) override { return item(); }
+  bool number_integer(number_integer_t) override { return item(); }
+  bool number_unsigned(number_unsigned_t) override { return item(); }
+  bool number_float(number_float_t, const string_t&) override { return item(); }
+  bool string(string_t&) override { return item(); }
+  bool binary(binary_t&) override { return item(); }
+  bool start_object(std::size_t) override { return open(false); }
+  bool start_array(std::size_t) override { return open(true); }
+  bool end_object() override { return close(); }
+  bool end_array() override { return close(); }
+  bool key(string_t& k) override {
+    Frame& f = frames_.back();
+    if (!f.keys.insert(k).second) {
+      duplicate = pathTo(k);
+      return false;
+    }
+    f.key = k;
+    return true;
+  }
+  bool parse_error(std::size_t, const std::string&, const nlohmann::detail::exception&) override { return false; }
+
+ private:
+  struct Frame {
+    bool array = false;
+    std::size_t items = 0;  // array: items begun so far
+    std::string key;        // object: the key being read
+    std::set<std::string> keys;
+  };
+  std::vector<Frame> frames_;        // the open containers, outermost first
+  std::vector<std::string> labels_;  // how each open container but the outermost is reached
+
+  // The label of the value that begins now (its key, or its index in an
+  // array), counting it as an array item.
+  std::string beginValue() {
+    if (frames_.empty()) return "";
+    Frame& f = frames_.back();
+    return f.array ? std::to_string(f.items++) : f.key;
+  }
+  bool item() {
+    beginValue();
+    return true;
+  }
+  bool open(bool array) {
+    const bool nested = !frames_.empty();
+    const std::string label = beginValue();
+    if (frames_.size() >= maxNesting) {
+      tooDeep = true;
+      deepPath = pathTo(label).substr(0, 200);
+      return false;
+    }
+    if (nested) labels_.push_back(label);
+    frames_.push_back(Frame{array, 0, "", {}});
+    return true;
+  }
+  bool close() {
+    frames_.pop_back();
+    if (!frames_.empty()) labels_.pop_back();
+    return true;
+  }
+  std::string pathTo(const std::string& last) const {
+    std::string path;
+    for (const std::string& l : labels_) path += l + ".";
+    return path + last;
+  }
+};
+
+// True when `path` names a group of scenario fields, the JSON object that
+// holds them ("body" holds "body.length_mm").
+bool isFieldGroup(const std::string& path) {
+  const std::string prefix = path + ".";
+  for (const auto& f : scenarioFields())
+    if (f.path.rfind(prefix, 0) == 0) return true;
+  return false;
+}
+
+// True when a version value names a format this build reads (1 to
+// scenarioFormatVersion), whatever JSON integer type holds it.
+bool readableVersion(const json& version) {
+  if (version.is_number_unsigned()) {
+    const std::uint64_t v = version.get<std::uint64_t>();
+    return v >= 1 && v <= std::uint64_t(scenarioFormatVersion);
+  }
+  if (!version.is_number_integer()) return false;
+  const std::int64_t v = version.get<std::int64_t>();
+  return v >= 1 && v <= scenarioFormatVersion;
+}
+
 // Parses the bare text of a --set value into JSON by the field's type.
 template <class T>
 json parseOverrideValue(const Field<T>& f, const std::string& value, const std::string& path) {
@@ -364,7 +480,10 @@ json parseOverrideValue(const Field<T>& f, const std::string& value, const std::
     const double x = std::strtod(value.c_str(), &end);
     if (value.empty() || end != value.c_str() + value.size() || !std::isfinite(x))
       throw ScenarioError(path, "expected a number (" + f.unit + "), got \"" + value + "\"");
-    if (f.type == FieldType::Integer) return std::int64_t(x) == x ? json(std::int64_t(x)) : json(x);
+    // Whole numbers within what a double holds exactly become JSON integers;
+    // anything else stays a number for the range check to refuse.
+    if (f.type == FieldType::Integer && std::abs(x) <= 9007199254740991.0 && std::floor(x) == x)
+      return json(std::int64_t(x));
     return x;
   }
   std::string v = value;
@@ -457,7 +576,7 @@ Scenario scenarioFromJson(const json& doc) {
     throw ScenarioError("dwellmark_scenario", "missing; a scenario file starts with \"dwellmark_scenario\": " +
                                                   std::to_string(scenarioFormatVersion));
   const json& version = doc["dwellmark_scenario"];
-  if (!version.is_number_integer() || version.get<int>() < 1 || version.get<int>() > scenarioFormatVersion)
+  if (!readableVersion(version))
     throw ScenarioError("dwellmark_scenario", "version " + version.dump() + " is not supported; this build reads version " +
                                                   std::to_string(scenarioFormatVersion));
 
@@ -490,11 +609,15 @@ Scenario scenarioFromJson(const json& doc) {
         seen.insert(path);
         continue;
       }
-      if (it->is_object()) {
+      const auto* f = findField(path);
+      // Only known groups are entered, so the walk is never deeper than the table.
+      if (!f && it->is_object()) {
+        if (!isFieldGroup(path)) throw ScenarioError(path, "unknown key");
         walk(*it, path);
         continue;
       }
-      const auto* f = findField(path);
+      if (!f && isFieldGroup(path))
+        throw ScenarioError(path, "expected an object holding the " + path + ".* fields, got " + it->dump());
       if (!f) throw ScenarioError(path, "unknown key");
       setFromJson(*f, s, *it, path);
       seen.insert(path);
@@ -532,16 +655,29 @@ json scenarioToJson(const Scenario& s) {
   return doc;
 }
 
+json parseScenarioText(const std::string& text, const std::string& origin) {
+  // A streaming pass first: it refuses repeated keys and deep nesting before
+  // any document is built.
+  StructureCheck check;
+  json::sax_parse(text, &check);
+  if (!check.duplicate.empty()) throw ScenarioError(check.duplicate, "key given twice in " + origin + "; keep one");
+  if (check.tooDeep)
+    throw ScenarioError(check.deepPath,
+                        "nested deeper than " + std::to_string(maxNesting) + " levels in " + origin +
+                            "; a scenario needs three");
+  try {
+    return json::parse(text);
+  } catch (const json::parse_error& e) {
+    throw ScenarioError("(file)", origin + " is not valid JSON: " + e.what());
+  }
+}
+
 json readScenarioJson(const std::string& path) {
   std::ifstream in(path, std::ios::binary);
   if (!in) throw ScenarioError("(file)", "cannot read " + path);
   std::stringstream buf;
   buf << in.rdbuf();
-  try {
-    return json::parse(buf.str());
-  } catch (const json::parse_error& e) {
-    throw ScenarioError("(file)", path + " is not valid JSON: " + e.what());
-  }
+  return parseScenarioText(buf.str(), path);
 }
 
 Scenario loadScenario(const std::string& path) { return scenarioFromJson(readScenarioJson(path)); }

@@ -160,8 +160,13 @@ nlohmann::json scenarioToJson(const Scenario& s);
 /// Reads, parses and validates a scenario file.
 Scenario loadScenario(const std::string& path);
 /// Reads a scenario file as JSON (no validation); throws ScenarioError on a
-/// missing file or malformed JSON.
+/// missing file or what parseScenarioText refuses.
 nlohmann::json readScenarioJson(const std::string& path);
+/// Parses scenario text as JSON (no validation). Malformed JSON and a key
+/// given twice in one object (RFC 8259 section 4 leaves its meaning open; a
+/// hand edit that repeats a key would otherwise lose one value silently)
+/// throw ScenarioError; `origin` names the text in messages.
+nlohmann::json parseScenarioText(const std::string& text, const std::string& origin);
 
 /// Applies `key.path=value` overrides to a scenario document before parsing.
 /// Numbers, true/false and quoted or bare strings are accepted; the path must

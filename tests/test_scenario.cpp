@@ -139,3 +139,64 @@ TEST_CASE("sRGB transfer matches IEC 61966-2-1", "[scenario][colour]") {
   CHECK(srgbToLinear(1.0) == Approx(1.0));
   for (double v : {0.0, 0.01, 0.2, 0.7, 1.0}) CHECK(linearToSrgb(srgbToLinear(v)) == Approx(v).margin(1e-12));
 }
+
+TEST_CASE("hand edits: a repeated key, deep nesting and a group given as a value are refused with their path",
+          "[scenario][parse]") {
+  auto refusedText = [](const std::string& text) {
+    try {
+      scenarioFromJson(parseScenarioText(text, "edited.json"));
+    } catch (const ScenarioError& e) {
+      return e.field();
+    }
+    return std::string();
+  };
+  CHECK(refusedText(R"({"dwellmark_scenario": 1, "body": {"length_mm": 60, "length_mm": 61}})") == "body.length_mm");
+  CHECK(refusedText(R"({"dwellmark_scenario": 1, "markings": [{"kind": "dot"}, {"end": "A", "end": "B"}]})") ==
+        "markings.1.end");
+  // The same key in two different objects is no repetition.
+  const std::string fine = demoDoc().dump();
+  CHECK_NOTHROW(scenarioFromJson(parseScenarioText(fine, "demo")));
+  // Ten thousand nested arrays: refused at the nesting limit, not walked.
+  const std::string deep = R"({"dwellmark_scenario": 1, "body": )" + std::string(10000, '[') + std::string(10000, ']') + "}";
+  CHECK(refusedText(deep).rfind("body.0.0.0", 0) == 0);
+  // Unknown groups are refused before being entered; known groups must be objects.
+  json d = demoDoc();
+  d["lamp"] = {{"colour", {{"hue", 1}}}};
+  CHECK(refusedField(d) == "lamp");
+  json e = demoDoc();
+  e["surface"] = 0.4;
+  CHECK(refusedField(e) == "surface");
+}
+
+TEST_CASE("the format version is read exactly, whatever JSON number type holds it", "[scenario][parse]") {
+  // 4294967297 is 2^32 + 1: read as a 32-bit int it used to pass as version 1.
+  for (const json& v : {json(4294967297ULL), json(0), json(-1), json(1.0), json("1"), json(nullptr)}) {
+    json d = demoDoc();
+    d["dwellmark_scenario"] = v;
+    INFO(v.dump());
+    CHECK(refusedField(d) == "dwellmark_scenario");
+  }
+}
+
+TEST_CASE("override values that used to crash or mislead are refused with the field", "[scenario][parse]") {
+  json d = demoDoc();
+  auto refusedOverride = [&](const std::string& assignment) {
+    json doc = d;
+    try {
+      applyOverride(doc, assignment);
+      scenarioFromJson(doc);
+    } catch (const ScenarioError& e) {
+      return e.field();
+    }
+    return std::string();
+  };
+  // A float-to-integer conversion out of range (undefined behaviour before).
+  CHECK(refusedOverride("run.substeps=1e300") == "run.substeps");
+  CHECK(refusedOverride("run.substeps=2.5") == "run.substeps");
+  // An index beyond any integer (std::out_of_range escaped before).
+  CHECK(refusedOverride("markings.99999999999999999999999.colour=#000000") ==
+        "markings.99999999999999999999999.colour");
+  // Text that is not UTF-8 was accepted and then made writing summary.json fail.
+  CHECK(refusedOverride("name=\xff\xfe") == "name");
+  CHECK(refusedOverride("name=caf\xc3\xa9") == "");
+}
