@@ -11,6 +11,8 @@
 
 #include "core/colour.hpp"
 #include "core/constants.hpp"
+#include "core/dynamics.hpp"
+#include "core/launch.hpp"
 
 namespace dm {
 
@@ -21,6 +23,14 @@ using json = nlohmann::json;
 std::string describe(double v) {
   std::ostringstream o;
   o.precision(10);
+  o << v;
+  return o.str();
+}
+
+// A derived figure in a message, to four significant digits.
+std::string approx(double v) {
+  std::ostringstream o;
+  o.precision(4);
   o << v;
   return o.str();
 }
@@ -505,6 +515,78 @@ const std::vector<Field<Marking>>& markingFields() {
 
 const Field<Scenario>* findField(const std::string& path) { return findIn(scenarioFields(), path); }
 
+namespace {
+
+// Largest launch.backspin that keeps the release spin at or below `limit`
+// (rad/s) with the scenario's vertical spin and body: the release spin is
+// W z + b psi1 u (u the pressed end's axis, psi1 the axial spin of b = 1).
+double largestBackspin(const Scenario& s, double limit) {
+  Scenario one = s;
+  one.launch.backspin = 1;
+  const Params p = makeParams(one);
+  const State s1 = launchState(p, one.launch);
+  const Vec3 axial = s1.spinWorld() - s.launch.revolution * up();
+  const double psi1 = axial.norm(), w = s.launch.revolution;
+  if (psi1 <= 0) return 2;
+  const double uz = axial.z() / psi1;
+  // |W z + b psi1 u|^2 = limit^2, the larger root.
+  const double half = w * psi1 * uz;
+  return std::max(0.0, (-half + std::sqrt(half * half - psi1 * psi1 * (w * w - limit * limit))) / (psi1 * psi1));
+}
+
+// The numerical rules: a stiff enough contact, a release spin below the
+// runaway limit, and a step that resolves the contact and the release spin.
+void checkNumerics(const Scenario& s) {
+  const NumericsNeeds needs = numericsNeeds(s);
+  const double radius = s.body.outerDiameter / 2, w = s.contact.frequency;
+  if (w < needs.minContactFrequency) {
+    Scenario stiffer = s;
+    stiffer.contact.frequency = std::ceil(needs.minContactFrequency / hz) * hz;
+    const double sag = k::gravity / (w * w);
+    throw ScenarioError("contact.frequency_hz",
+                        "value " + describe(w / hz) + " lets the body sink " + approx(sag * 1e6) +
+                            " um under its weight, " + approx(100 * sag / radius) + " % of its " +
+                            describe(radius / mm) + " mm outer radius; allowed at least " +
+                            describe(stiffer.contact.frequency / hz) + " Hz for this body (at most " +
+                            describe(100 * k::maxStaticDeflection) + " %), with run.substeps at least " +
+                            std::to_string(numericsNeeds(stiffer).minSubsteps));
+  }
+  const double spinLimit = 0.5 * k::runawaySpin;
+  if (needs.releaseSpin > spinLimit)
+    throw ScenarioError("launch.backspin",
+                        "value " + describe(s.launch.backspin) + " spins the body at " + approx(needs.releaseSpin) +
+                            " rad/s at release, over half the " + describe(k::runawaySpin) +
+                            " rad/s a run treats as runaway; allowed at most " +
+                            describe(std::floor(largestBackspin(s, spinLimit) * 1000) / 1000) + " for this body and launch.revolution_rev_s");
+  if (s.run.substeps < needs.minSubsteps) {
+    const double step = s.run.timeStep(), turn = needs.releaseSpin * step;
+    const std::string why = turn > k::maxTurnPerStep
+                                ? "in which the release spin (" + approx(needs.releaseSpin) + " rad/s) turns the body by " +
+                                      approx(turn) + " rad, more than " + describe(k::maxTurnPerStep) + " rad"
+                                : "longer than a twentieth of the contact period (" +
+                                      approx(0.05 * k::twoPi / w * 1e6) + " us)";
+    throw ScenarioError("run.substeps", "value " + describe(s.run.substeps) + " gives a " + approx(step * 1e6) +
+                                            " us step " + why + "; allowed at least " +
+                                            std::to_string(needs.minSubsteps) +
+                                            (turn > k::maxTurnPerStep ? ", or launch.backspin at most " +
+                                                                            describe(std::floor(largestBackspin(s, k::maxTurnPerStep / step) * 1000) / 1000)
+                                                                      : ""));
+  }
+}
+
+}  // namespace
+
+NumericsNeeds numericsNeeds(const Scenario& s) {
+  NumericsNeeds n;
+  n.minContactFrequency = std::sqrt(k::gravity / (k::maxStaticDeflection * s.body.outerDiameter / 2));
+  n.releaseSpin = launchState(makeParams(s), s.launch).spinBody.norm();
+  // Longest step that resolves the contact and turns the body by at most maxTurnPerStep.
+  double longest = 0.05 * k::twoPi / s.contact.frequency;
+  if (n.releaseSpin > 0) longest = std::min(longest, k::maxTurnPerStep / n.releaseSpin);
+  n.minSubsteps = int(std::ceil(s.run.sampleInterval / longest * (1 - 1e-12)));
+  return n;
+}
+
 Cylinder cylinderOf(const BodySpec& b) {
   Cylinder c;
   c.length = b.length;
@@ -551,13 +633,7 @@ void validate(const Scenario& s) {
     throw ScenarioError("surface.friction_kinetic", "value " + describe(s.surface.frictionKinetic) +
                                                         " exceeds surface.friction_static " +
                                                         describe(s.surface.frictionStatic) + "; allowed 0 to the static value");
-  // The step must resolve the contact: at most a twentieth of its period.
-  const double step = s.run.timeStep(), longest = 0.05 * k::twoPi / s.contact.frequency;
-  if (step > longest)
-    throw ScenarioError("run.substeps", "value " + describe(s.run.substeps) + " gives a " + describe(step * 1e6) +
-                                            " us step, longer than a twentieth of the contact period (" +
-                                            describe(longest * 1e6) + " us); allowed at least " +
-                                            describe(std::ceil(s.run.sampleInterval / longest)));
+  checkNumerics(s);
   for (std::size_t i = 0; i < s.paint.markings.size(); ++i) {
     const Marking& m = s.paint.markings[i];
     const std::string prefix = "markings." + std::to_string(i) + ".";

@@ -151,6 +151,19 @@ Scenario defaultScenario();
 /// naming the first offending field.
 void validate(const Scenario& s);
 
+/// What a scenario's body and launch ask of the numerics (validate enforces
+/// it): a contact stiff enough that the body's weight sinks it by at most
+/// k::maxStaticDeflection of its outer radius, and enough integrator steps
+/// per row to resolve both the contact (a twentieth of its period per step)
+/// and the spin at release (at most k::maxTurnPerStep per step).
+struct NumericsNeeds {
+  double minContactFrequency = 0;  ///< rad/s
+  int minSubsteps = 1;             ///< at the scenario's own contact.frequency and run.sample_ms
+  double releaseSpin = 0;          ///< angular speed at release, rad/s
+};
+/// The needs of a scenario whose fields are each within their ranges.
+NumericsNeeds numericsNeeds(const Scenario& s);
+
 /// Parses and validates a scenario document. Unknown keys, missing required
 /// fields, wrong types and out-of-range values throw ScenarioError.
 Scenario scenarioFromJson(const nlohmann::json& doc);
