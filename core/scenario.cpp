@@ -743,7 +743,8 @@ json parseScenarioText(const std::string& text, const std::string& origin) {
                             "; a scenario needs three");
   try {
     return json::parse(text);
-  } catch (const json::parse_error& e) {
+  } catch (const json::exception& e) {
+    // parse_error for bad syntax, out_of_range for a number beyond a double.
     throw ScenarioError("(file)", origin + " is not valid JSON: " + e.what());
   }
 }
