@@ -21,8 +21,8 @@ namespace {
 // that concurrent writers of the same file never share one.
 fs::path temporaryBeside(const fs::path& target) {
   const std::size_t thread = std::hash<std::thread::id>{}(std::this_thread::get_id());
-  return target.parent_path() /
-         (".tmp-" + target.filename().string() + "-" + std::to_string(::getpid()) + "-" + std::to_string(thread % 1000003));
+  const std::string tag = std::to_string(::getpid()) + "-" + std::to_string(thread % 1000003);
+  return target.parent_path() / (".tmp-" + target.filename().string() + "-" + tag);
 }
 
 // Writes all of `content` to a new file and flushes it to the disk, so the

@@ -534,6 +534,32 @@ double largestBackspin(const Scenario& s, double limit) {
   return std::max(0.0, (-half + std::sqrt(half * half - psi1 * psi1 * (w * w - limit * limit))) / (psi1 * psi1));
 }
 
+// Refuses run.substeps: says which limit the step breaks, the substeps
+// that would do, and what else would (less back-spin, shorter rows).
+[[noreturn]] void refuseSubsteps(const Scenario& s, const NumericsNeeds& needs) {
+  const double step = s.run.timeStep(), turn = needs.releaseSpin * step;
+  const bool spinBound = turn > k::maxTurnPerStep;
+  const std::string why =
+      spinBound ? "in which the release spin (" + approx(needs.releaseSpin) + " rad/s) turns the body by " +
+                      approx(turn) + " rad, more than " + describe(k::maxTurnPerStep) + " rad"
+                : "longer than a twentieth of the contact period (" +
+                      approx(0.05 * k::twoPi / s.contact.frequency * 1e6) + " us)";
+  const double most = findField("run.substeps")->max;
+  std::string cure = needs.minSubsteps <= most
+                         ? "allowed at least " + std::to_string(needs.minSubsteps)
+                         : "it needs " + std::to_string(needs.minSubsteps) + ", more than the " + describe(most) +
+                               " allowed: lower run.sample_ms to at most " +
+                               describe(std::floor(most * needs.longestStep * 1e6) / 1e3);
+  // Less back-spin cures it only when the step already resolves the contact and the vertical spin.
+  const bool backspinCures =
+      step <= 0.05 * k::twoPi / s.contact.frequency && s.launch.revolution * step <= k::maxTurnPerStep;
+  if (spinBound && backspinCures)
+    cure += ", or launch.backspin at most " +
+            describe(std::floor(largestBackspin(s, k::maxTurnPerStep / step) * 1000) / 1000);
+  throw ScenarioError("run.substeps", "value " + describe(s.run.substeps) + " gives a " + approx(step * 1e6) +
+                                          " us step " + why + "; " + cure);
+}
+
 // The numerical rules: a stiff enough contact, a release spin below the
 // runaway limit, and a step that resolves the contact and the release spin.
 void checkNumerics(const Scenario& s) {
@@ -557,21 +583,9 @@ void checkNumerics(const Scenario& s) {
                         "value " + describe(s.launch.backspin) + " spins the body at " + approx(needs.releaseSpin) +
                             " rad/s at release, over half the " + describe(k::runawaySpin) +
                             " rad/s a run treats as runaway; allowed at most " +
-                            describe(std::floor(largestBackspin(s, spinLimit) * 1000) / 1000) + " for this body and launch.revolution_rev_s");
-  if (s.run.substeps < needs.minSubsteps) {
-    const double step = s.run.timeStep(), turn = needs.releaseSpin * step;
-    const std::string why = turn > k::maxTurnPerStep
-                                ? "in which the release spin (" + approx(needs.releaseSpin) + " rad/s) turns the body by " +
-                                      approx(turn) + " rad, more than " + describe(k::maxTurnPerStep) + " rad"
-                                : "longer than a twentieth of the contact period (" +
-                                      approx(0.05 * k::twoPi / w * 1e6) + " us)";
-    throw ScenarioError("run.substeps", "value " + describe(s.run.substeps) + " gives a " + approx(step * 1e6) +
-                                            " us step " + why + "; allowed at least " +
-                                            std::to_string(needs.minSubsteps) +
-                                            (turn > k::maxTurnPerStep ? ", or launch.backspin at most " +
-                                                                            describe(std::floor(largestBackspin(s, k::maxTurnPerStep / step) * 1000) / 1000)
-                                                                      : ""));
-  }
+                            describe(std::floor(largestBackspin(s, spinLimit) * 1000) / 1000) +
+                            " for this body and launch.revolution_rev_s");
+  if (s.run.substeps < needs.minSubsteps) refuseSubsteps(s, needs);
 }
 
 }  // namespace
@@ -581,9 +595,9 @@ NumericsNeeds numericsNeeds(const Scenario& s) {
   n.minContactFrequency = std::sqrt(k::gravity / (k::maxStaticDeflection * s.body.outerDiameter / 2));
   n.releaseSpin = launchState(makeParams(s), s.launch).spinBody.norm();
   // Longest step that resolves the contact and turns the body by at most maxTurnPerStep.
-  double longest = 0.05 * k::twoPi / s.contact.frequency;
-  if (n.releaseSpin > 0) longest = std::min(longest, k::maxTurnPerStep / n.releaseSpin);
-  n.minSubsteps = int(std::ceil(s.run.sampleInterval / longest * (1 - 1e-12)));
+  n.longestStep = 0.05 * k::twoPi / s.contact.frequency;
+  if (n.releaseSpin > 0) n.longestStep = std::min(n.longestStep, k::maxTurnPerStep / n.releaseSpin);
+  n.minSubsteps = int(std::ceil(s.run.sampleInterval / n.longestStep * (1 - 1e-12)));
   return n;
 }
 

@@ -158,6 +158,7 @@ void validate(const Scenario& s);
 /// and the spin at release (at most k::maxTurnPerStep per step).
 struct NumericsNeeds {
   double minContactFrequency = 0;  ///< rad/s
+  double longestStep = 0;          ///< s, at the scenario's own contact.frequency
   int minSubsteps = 1;             ///< at the scenario's own contact.frequency and run.sample_ms
   double releaseSpin = 0;          ///< angular speed at release, rad/s
 };

@@ -5,6 +5,8 @@
 #include <limits>
 #include <sstream>
 
+#include <unistd.h>
+
 #include <catch2/catch.hpp>
 
 #include "core/export.hpp"

@@ -165,7 +165,8 @@ TEST_CASE("hand edits: a repeated key, deep nesting and a group given as a value
   const std::string fine = demoDoc().dump();
   CHECK_NOTHROW(scenarioFromJson(parseScenarioText(fine, "demo")));
   // Ten thousand nested arrays: refused at the nesting limit, not walked.
-  const std::string deep = R"({"dwellmark_scenario": 1, "body": )" + std::string(10000, '[') + std::string(10000, ']') + "}";
+  const std::string deep =
+      R"({"dwellmark_scenario": 1, "body": )" + std::string(10000, '[') + std::string(10000, ']') + "}";
   CHECK(refusedText(deep).rfind("body.0.0.0", 0) == 0);
   // Unknown groups are refused before being entered; known groups must be objects.
   json d = demoDoc();
@@ -302,6 +303,21 @@ TEST_CASE("numerics refusals name the setting and a value that is then accepted"
   CHECK(refusedField(rod) == "run.substeps");
   const Scenario fine = scenarioFromJson(demoDoc());
   CHECK(numericsNeeds(fine).minSubsteps <= fine.run.substeps);
+
+  // Rows too far apart for the 1000 substeps allowed: the cure is shorter rows.
+  json sparse = demoDoc();
+  applyOverride(sparse, "run.sample_ms=100");
+  applyOverride(sparse, "contact.frequency_hz=2000");
+  CHECK(refusedField(sparse) == "run.substeps");
+  try {
+    scenarioFromJson(sparse);
+  } catch (const ScenarioError& e) {
+    // A twentieth of 0.5 ms is 25 us; 1000 of them make 25 ms.
+    CHECK(std::string(e.what()).find("lower run.sample_ms to at most 25") != std::string::npos);
+  }
+  applyOverride(sparse, "run.sample_ms=25");
+  applyOverride(sparse, "run.substeps=1000");
+  CHECK(refusedField(sparse) == "");
 }
 
 TEST_CASE("at the largest turn per step the integrator's rotation errs less than plain RK4", "[scenario][numerics]") {

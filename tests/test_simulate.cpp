@@ -5,7 +5,10 @@
 #include <chrono>
 #include <filesystem>
 #include <optional>
+#include <limits>
 #include <sstream>
+
+#include <unistd.h>
 
 #include <catch2/catch.hpp>
 
@@ -44,7 +47,8 @@ DrivenRoll drivenRoll() {
   d.params = makeParams(sc);
   d.params.rollingResistance = -10;
   d.start.orientation = test::frameAlong(Vec3(0, 1, 0));
-  d.start.position = Vec3(0, 0, d.params.body.outerRadius - 0.5 * d.params.inertia.mass * d.params.gravity / d.params.normalStiffness);
+  d.start.position =
+      Vec3(0, 0, d.params.body.outerRadius - 0.5 * d.params.inertia.mass * d.params.gravity / d.params.normalStiffness);
   d.start.spinBody = Vec3(0, 0, 1.0);
   return d;
 }
@@ -161,8 +165,8 @@ struct Body {
   double lengthMm, diameterMm, wallMm;
 };
 const std::vector<Body> sweepBodies = {
-    {"disk", 0.4, 2, 0},    {"disk", 0.2, 1, 0},   {"disk", 2, 25, 0},     {"disk", 0.2, 500, 0},  {"ring", 5, 30, 1},
-    {"tube", 64, 8, 0.5},   {"tube", 131, 32, 1.6}, {"rod", 400, 10, 0},   {"rod", 400, 4, 0},     {"rod", 1000, 1, 0}};
+    {"disk", 0.4, 2, 0},  {"disk", 0.2, 1, 0},    {"disk", 2, 25, 0},  {"disk", 0.2, 500, 0}, {"ring", 5, 30, 1},
+    {"tube", 64, 8, 0.5}, {"tube", 131, 32, 1.6}, {"rod", 400, 10, 0}, {"rod", 400, 4, 0},    {"rod", 1000, 1, 0}};
 
 // Under AddressSanitizer a run costs about twenty times more: the sanitizer
 // stage of tests/run-all.sh takes every ninth design (each body still nine
@@ -223,7 +227,8 @@ Parsed parseDesign(const Design& d, const Scenario& demo) {
     Scenario s = scenarioFromJson(generous);
     s.contact = demo.contact;
     s.run.substeps = demo.run.substeps;
-    s.contact.frequency = std::max(s.contact.frequency, std::ceil(numericsNeeds(s).minContactFrequency / k::twoPi) * k::twoPi);
+    s.contact.frequency =
+        std::max(s.contact.frequency, std::ceil(numericsNeeds(s).minContactFrequency / k::twoPi) * k::twoPi);
     s.run.substeps = std::max(s.run.substeps, numericsNeeds(s).minSubsteps);
     validate(s);
     p.scenario = s;
@@ -295,8 +300,8 @@ TEST_CASE("extreme designs end with a result or a named refusal, finite outputs 
     ++results;
   }
   WARN("measured, extreme sweep: " << sweepDesigns().size() << " designs, " << results << " results (" << cured
-                         << " after raising the named numerical setting), " << refusals
-                         << " refusals; worst cost per simulated second vs the demo: " << worstStepRatio
-                         << " x in steps, " << worstWallRatio << " x in wall time");
+                                   << " after raising the named numerical setting), " << refusals
+                                   << " refusals; worst cost per simulated second vs the demo: " << worstStepRatio
+                                   << " x in steps, " << worstWallRatio << " x in wall time");
   CHECK(results + refusals == int(sweepDesigns().size()));
 }

@@ -77,7 +77,8 @@ inline Outcome checkScenarioInput(const std::string& bytes) {
   const Params p = makeParams(s);
   State state = launchState(p, s.launch);
   for (int i = 0; i < stepsAfterAcceptance; ++i) {
-    if (!healthy(state)) throw std::logic_error("an accepted scenario is not healthy after " + std::to_string(i) + " steps");
+    if (!healthy(state))
+      throw std::logic_error("an accepted scenario is not healthy after " + std::to_string(i) + " steps");
     step(p, state);
   }
   return Outcome::Accepted;
