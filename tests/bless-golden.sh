@@ -5,10 +5,9 @@
 # commit says what changed and why (DEVELOPERS.md, "Golden runs").
 # Usage: bash tests/bless-golden.sh [DWELLMARK]
 set -euo pipefail
-src=$(cd "$(dirname "$0")/.." && pwd)
-bin=$(realpath "${1:-$src/build/app/dwellmark}")
-work=$(mktemp -d); trap 'rm -rf "$work"' EXIT
-. "$src/tests/golden/lib.sh"
+. "$(dirname "$0")/golden/lib.sh"
+root=$(cd "$(dirname "$0")/.." && pwd)
+golden_begin "${1:-$root/build/app/dwellmark}" "$root"
 
 while IFS='|' read -r name args; do
   golden_run "$bin" "$src" "$args" "$work/$name"

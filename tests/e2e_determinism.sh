@@ -4,10 +4,8 @@
 # the two output folders must be identical byte for byte.
 # Usage: e2e_determinism.sh DWELLMARK SOURCE_DIR
 set -u
-bin=$(realpath "$1"); src=$(realpath "$2")
-work=$(mktemp -d); trap 'rm -rf "$work"' EXIT
-fail() { echo "FAIL: $*"; exit 1; }
-. "$src/tests/golden/lib.sh"
+. "$(dirname "$0")/golden/lib.sh"
+golden_begin "$1" "$2"
 
 count=0
 while IFS='|' read -r name args; do

@@ -7,11 +7,10 @@
 # write that cannot finish leaves no temporary file.
 # Usage: e2e_files.sh DWELLMARK SOURCE_DIR
 set -u
-bin=$(realpath "$1"); src=$(realpath "$2")
-work=$(mktemp -d); trap 'kill $writer 2>/dev/null; rm -rf "$work"' EXIT
+. "$(dirname "$0")/golden/lib.sh"
+golden_begin "$1" "$2"
 writer=
-fail() { echo "FAIL: $*"; exit 1; }
-. "$src/tests/golden/lib.sh"
+trap '[ -z "$writer" ] || kill "$writer" 2>/dev/null; rm -rf "$work"' EXIT
 
 no_temporaries() {  # DIR
   [ -z "$(find "$1" -name '.tmp-*')" ] || fail "temporary files left in $1: $(find "$1" -name '.tmp-*')"

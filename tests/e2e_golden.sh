@@ -5,10 +5,8 @@
 # `bash tests/bless-golden.sh` and say why in the commit (DEVELOPERS.md).
 # Usage: e2e_golden.sh DWELLMARK SOURCE_DIR
 set -u
-bin=$(realpath "$1"); src=$(realpath "$2")
-work=$(mktemp -d); trap 'rm -rf "$work"' EXIT
-fail() { echo "FAIL: $*"; exit 1; }
-. "$src/tests/golden/lib.sh"
+. "$(dirname "$0")/golden/lib.sh"
+golden_begin "$1" "$2"
 
 count=0
 while IFS='|' read -r name args; do

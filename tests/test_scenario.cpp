@@ -2,6 +2,7 @@
 #include <algorithm>
 #include <filesystem>
 #include <fstream>
+#include <optional>
 #include <sstream>
 
 #include <catch2/catch.hpp>
@@ -19,14 +20,24 @@ namespace {
 
 json demoDoc() { return readScenarioJson(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json"); }
 
-// The field named by the error a broken document raises ("" if none).
-std::string refusedField(const json& doc) {
+// The error a broken document raises, if any.
+std::optional<ScenarioError> refusal(const json& doc) {
   try {
     scenarioFromJson(doc);
   } catch (const ScenarioError& e) {
-    return e.field();
+    return e;
   }
-  return "";
+  return std::nullopt;
+}
+
+// The field it names, and its whole message ("" if none).
+std::string refusedField(const json& doc) {
+  const auto e = refusal(doc);
+  return e ? e->field() : "";
+}
+std::string refusalOf(const json& doc) {
+  const auto e = refusal(doc);
+  return e ? e->what() : "";
 }
 
 }  // namespace
@@ -267,12 +278,8 @@ TEST_CASE("numerics refusals name the setting and a value that is then accepted"
   CHECK(refusedField(coin) == "contact.frequency_hz");
   // sqrt(g / (0.01 R)) / 2 pi with R = 1 mm: 157.6 Hz, so 158 Hz; its
   // contact period then needs 4 steps per 1 ms row (a twentieth each).
-  try {
-    scenarioFromJson(coin);
-  } catch (const ScenarioError& e) {
-    CHECK(std::string(e.what()).find("allowed at least 158 Hz") != std::string::npos);
-    CHECK(std::string(e.what()).find("run.substeps at least 4") != std::string::npos);
-  }
+  CHECK(refusalOf(coin).find("allowed at least 158 Hz") != std::string::npos);
+  CHECK(refusalOf(coin).find("run.substeps at least 4") != std::string::npos);
   applyOverride(coin, "contact.frequency_hz=158");
   CHECK(refusedField(coin) == "run.substeps");
   applyOverride(coin, "run.substeps=4");
@@ -286,12 +293,7 @@ TEST_CASE("numerics refusals name the setting and a value that is then accepted"
   applyOverride(rod, "launch.backspin=2");
   // Axial spin 2 x 314 rad/s x (L / D) = 25 000 rad/s: over half the runaway limit.
   CHECK(refusedField(rod) == "launch.backspin");
-  std::string said;
-  try {
-    scenarioFromJson(rod);
-  } catch (const ScenarioError& e) {
-    said = e.what();
-  }
+  const std::string said = refusalOf(rod);
   const auto at = said.find("allowed at most ");
   REQUIRE(at != std::string::npos);
   const double largest = std::stod(said.substr(at + 16));
@@ -309,12 +311,8 @@ TEST_CASE("numerics refusals name the setting and a value that is then accepted"
   applyOverride(sparse, "run.sample_ms=100");
   applyOverride(sparse, "contact.frequency_hz=2000");
   CHECK(refusedField(sparse) == "run.substeps");
-  try {
-    scenarioFromJson(sparse);
-  } catch (const ScenarioError& e) {
-    // A twentieth of 0.5 ms is 25 us; 1000 of them make 25 ms.
-    CHECK(std::string(e.what()).find("lower run.sample_ms to at most 25") != std::string::npos);
-  }
+  // A twentieth of 0.5 ms is 25 us; 1000 of them make 25 ms.
+  CHECK(refusalOf(sparse).find("lower run.sample_ms to at most 25") != std::string::npos);
   applyOverride(sparse, "run.sample_ms=25");
   applyOverride(sparse, "run.substeps=1000");
   CHECK(refusedField(sparse) == "");

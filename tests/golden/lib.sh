@@ -1,5 +1,16 @@
-# Shared by e2e_golden.sh, e2e_determinism.sh and bless-golden.sh: reads
-# runs.txt and runs one entry into a folder.
+# Shared by e2e_golden.sh, e2e_determinism.sh, e2e_files.sh and
+# bless-golden.sh: reads runs.txt and runs one entry into a folder.
+
+# The start of an end-to-end script: sets bin and src (absolute) and work,
+# a temporary folder removed on exit.
+golden_begin() {  # DWELLMARK SOURCE_DIR
+  bin=$(realpath "$1")
+  src=$(realpath "$2")
+  work=$(mktemp -d)
+  trap 'rm -rf "$work"' EXIT
+}
+
+fail() { echo "FAIL: $*"; exit 1; }
 
 # Prints the runs as NAME|ARGUMENTS lines, comments and blank lines dropped.
 golden_runs() {  # SOURCE_DIR
