@@ -143,8 +143,7 @@ nlohmann::json summaryJson(const RunResult& r) {
   j["energy_final_mJ"] = s.energyFinal * 1e3;
   j["end_time_s"] = s.endTime;
   j["creep_bound"] = {{"model", "stick spring with Coulomb slip limit (Cundall-Strack)"},
-                      {"max_slip_to_rim_speed_ratio", creepBoundRatio},
-                      {"measured_max_slip_to_rim_speed_ratio_rolling", s.maxRollingSlipRatio}};
+                      {"max_slip_to_rim_speed_ratio", creepBoundRatio}};
   j["mass_g"] = r.params.inertia.mass * 1e3;
   j["time_step_us"] = r.params.timeStep * 1e6;
   if (r.fault) {
