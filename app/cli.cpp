@@ -18,6 +18,8 @@ int runCli(int argc, char** argv) {
   app.require_subcommand(1);
   Commands commands;
   addSimulateCommand(app, commands);
+  addSteadyCommand(app, commands);
+  addAdviseCommand(app, commands);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -26,6 +26,10 @@ struct Commands {
 };
 
 void addSimulateCommand(CLI::App& app, Commands& commands);
+/// `steady`: the analytic steady spin at a precession rate or a tilt (app/cmd_steady.cpp).
+void addSteadyCommand(CLI::App& app, Commands& commands);
+/// `advise`: the dimension advisor (app/cmd_advise.cpp).
+void addAdviseCommand(CLI::App& app, Commands& commands);
 
 /// Reads a scenario file, applies `--set key.path=value` overrides, parses
 /// and validates it (throws ScenarioError).
