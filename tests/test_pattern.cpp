@@ -8,11 +8,11 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
-#include <random>
 
 #include "core/constants.hpp"
 #include "core/kinematics.hpp"
 #include "core/pattern.hpp"
+#include "core/random.hpp"
 
 using namespace dm;
 
@@ -368,16 +368,16 @@ TEST_CASE("windows slide by the step and stop at the end of the record", "[patte
 
 TEST_CASE("a four-spot pattern blurred by scatter still counts four spots; more scatter is a ring", "[pattern]") {
   // Hand-made stops: a quarter turn apart, four per revolution at 6 rev/s,
-  // each thrown off its place by a scatter uniform in +-A (mt19937's output
-  // sequence is fixed by the C++ standard, so the test repeats exactly).
+  // each thrown off its place by a scatter uniform in +-A (SplitMix64 with a
+  // fixed seed, so the test repeats exactly).
   const Rolling r = rolling(5, 6, 4);
   const Trajectory tr = record(r, 1.0);
   const auto points = markedPoints(r.body, patchOnA(0), {});
   auto scattered = [&](double amplitudeDeg) {
-    std::mt19937 random(7);
+    SplitMix64 random{7};
     std::vector<StopEvent> stops;
     for (int i = 0; i < 24; ++i) {
-      const double u = double(random()) / 4294967296.0;
+      const double u = random.uniform();
       const double az = (90.0 * i + amplitudeDeg * (2 * u - 1)) * k::degree;
       StopEvent s;
       s.time = (i + 0.5) / 24.0;
