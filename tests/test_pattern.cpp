@@ -1,10 +1,11 @@
-// Traces, stop events and spot statistics. Exact checks run on synthetic
-// records of a rigid motion with a fixed centre: the axis turns about the
-// vertical at a constant tilt and rate while the body spins about its axis,
-// with the length chosen so that the spin matches the rolling condition
-// N = (L/D) cos(tilt) - sin(tilt) (physics.md section 3). The contact point
+// Traces, stop events and spot statistics. Exact checks run on records of
+// the steady solver's prescribed motion (SteadyMotion) with a fixed centre:
+// the axis turns about the vertical at a constant tilt and rate while the
+// body spins about its axis. Most set N by hand, choosing the length so that
+// N = (L/D) cos(tilt) - sin(tilt) (physics.md section 3): the contact point
 // and the top of the raised end are then at rest, as in a steady spin, for
-// any N the test asks for.
+// any N the test asks for. Further checks run the solver's own states, and
+// simulations started on them.
 #include <catch2/catch.hpp>
 
 #include <cmath>
@@ -21,58 +22,43 @@ using namespace dm;
 
 namespace {
 
-// A rigid motion with a fixed centre: tilt, precession rate (rad/s) and
-// spots per revolution N; raised end A.
-struct Rolling {
-  Cylinder body;
-  double tilt = 0;
-  double precession = 0;
-  double n = 0;
-  Vec3 centre = Vec3::Zero();
-  double relativeSpin() const { return n * precession; }
-  Vec3 axis(double t) const {
-    const double az = precession * t;
-    return {std::cos(tilt) * std::cos(az), std::cos(tilt) * std::sin(az), std::sin(tilt)};
-  }
-  Quat orientation(double t) const {
-    const Vec3 a0(std::cos(tilt), 0, std::sin(tilt));
-    const Vec3 up0(-std::sin(tilt), 0, std::cos(tilt));  // body x: the top of the end circle at t = 0
-    Mat3 b0;
-    b0.col(0) = up0;
-    b0.col(1) = a0.cross(up0);
-    b0.col(2) = a0;
-    return (Quat(Eigen::AngleAxisd(precession * t, Vec3::UnitZ())) * Quat(b0) *
-            Quat(Eigen::AngleAxisd(relativeSpin() * t, Vec3::UnitZ())))
-        .normalized();
-  }
-  Vec3 spin(double t) const { return precession * Vec3::UnitZ() + relativeSpin() * axis(t); }
-};
-
-// A tube of 16 mm outer diameter and 1 mm wall whose length makes N roll
-// without slip at the given tilt.
-Rolling rolling(double tiltDeg, double precessionRevS, double n) {
-  Rolling r;
-  r.tilt = tiltDeg * k::degree;
-  r.precession = precessionRevS * k::twoPi;
-  r.n = n;
-  r.body.outerRadius = 0.008;
-  r.body.innerRadius = 0.007;
-  r.body.length = 2 * r.body.outerRadius * (n + std::sin(r.tilt)) / std::cos(r.tilt);
-  r.centre = Vec3(0.01, -0.02, r.body.length / 2 * std::sin(r.tilt) + r.body.outerRadius * std::cos(r.tilt));
-  return r;
+// A tube of 16 mm outer diameter and 1 mm wall turning as SteadyMotion
+// prescribes, end A raised, with a hand-set tilt, precession (rev/s) and N,
+// and the length that makes that N roll without slip at that tilt. Body x
+// is at the top of the end circle at t = 0 (roll0 = pi: SteadyMotion's body
+// x points down at zero roll).
+SteadyMotion rolling(double tiltDeg, double precessionRevS, double n) {
+  SteadyMotion m;
+  m.body.outerRadius = 0.008;
+  m.body.innerRadius = 0.007;
+  const double tilt = tiltDeg * k::degree, R = m.body.outerRadius;
+  m.body.length = 2 * R * (n + std::sin(tilt)) / std::cos(tilt);
+  const double halfL = m.body.length / 2;
+  m.spin.tilt = tilt;
+  m.spin.precession = precessionRevS * k::twoPi;
+  m.spin.spotsPerRev = n;
+  m.spin.relativeSpin = n * m.spin.precession;
+  m.spin.centreHeight = halfL * std::sin(tilt) + R * std::cos(tilt);
+  m.spin.ceilingHeight = 2 * m.spin.centreHeight;
+  m.spin.contactRadius = halfL * std::cos(tilt) - R * std::sin(tilt);
+  m.centre = Vec3(0.01, -0.02, 0);
+  m.roll0 = k::pi;
+  return m;
 }
 
+Vec3 centreOf(const SteadyMotion& m) { return m.poseAt(0).position; }
+
 // The motion sampled every `h` seconds into a trajectory.
-Trajectory record(const Rolling& r, double duration, double h = 1e-4) {
+Trajectory record(const SteadyMotion& m, double duration, double h = 1e-4) {
   Trajectory tr;
   const long steps = std::lround(duration / h);
   for (long i = 0; i <= steps; ++i) {
     Sample s;
     s.t = double(i) * h;
-    s.position = r.centre;
-    s.orientation = r.orientation(s.t);
-    s.spin = r.spin(s.t);
-    s.phase = Phase::RollingB;
+    const Pose pose = m.poseAt(s.t);
+    s.position = pose.position;
+    s.orientation = pose.worldFromBody;
+    s.spin = m.spinAt(s.t);
     tr.samples.push_back(s);
   }
   return tr;
@@ -97,35 +83,18 @@ double angleDiffDeg(double a, double b) { return std::remainder(a - b, 360.0); }
 
 // The pattern analysis of a synthetic record with one patch on end A.
 struct Analysed {
-  Rolling motion;
   Trajectory tr;
   std::vector<MarkedPoint> points;
   std::vector<StopEvent> stops;
   std::vector<PatternWindow> windows;
 };
 
-Analysed analyse(const Rolling& r, double duration, const AnalysisSpec& spec = {}) {
-  Analysed a{r, record(r, duration), {}, {}, {}};
+Analysed analyse(const SteadyMotion& r, double duration, const AnalysisSpec& spec = {}) {
+  Analysed a{record(r, duration), {}, {}, {}};
   a.points = markedPoints(r.body, patchOnA(30), {});
   a.stops = stopEvents(a.tr, a.points, spec.dwellSpeed);
   a.windows = patternWindows(a.tr, a.points, a.stops, spec);
   return a;
-}
-
-// The solver's exact steady motion sampled every `h` seconds.
-Trajectory record(const SteadyMotion& m, double duration, double h = 1e-4) {
-  Trajectory tr;
-  const long steps = std::lround(duration / h);
-  for (long i = 0; i <= steps; ++i) {
-    Sample s;
-    s.t = double(i) * h;
-    const Pose pose = m.poseAt(s.t);
-    s.position = pose.position;
-    s.orientation = pose.worldFromBody;
-    s.spin = m.spinAt(s.t);
-    tr.samples.push_back(s);
-  }
-  return tr;
 }
 
 // A dissipation-free tube of 16 mm outer diameter and 1 mm wall, `lengthMm` long.
@@ -220,39 +189,39 @@ TEST_CASE("marked points come from the markings and the extra trace points", "[p
 }
 
 TEST_CASE("floor and ceiling contacts trace circles on the table and the ceiling", "[pattern]") {
-  const Rolling r = rolling(10, 7, 4);
+  const SteadyMotion r = rolling(10, 7, 4);
   const Trajectory tr = record(r, 0.3);
   const Traces t = traceRun(tr, r.body, markedPoints(r.body, patchOnA(0), {}), 1e-3);
   REQUIRE(t.time.size() == 301);  // one row per millisecond, like trajectory.csv
   // Both contacts circle the centre at (L/2) cos(tilt) - R sin(tilt), the
   // floor one on the table, the ceiling one at twice the centre height
   // (physics.md section 3, item 3).
-  const double radius = r.body.length / 2 * std::cos(r.tilt) - r.body.outerRadius * std::sin(r.tilt);
+  const double radius = r.spin.contactRadius;
   for (std::size_t i = 0; i < t.time.size(); i += 37) {
-    const Vec3 floor = t.floorContact[i] - r.centre, ceiling = t.ceilingContact[i] - r.centre;
+    const Vec3 floor = t.floorContact[i] - centreOf(r), ceiling = t.ceilingContact[i] - centreOf(r);
     CHECK(t.floorContact[i].z() == Approx(0).margin(1e-12));
-    CHECK(t.ceilingContact[i].z() == Approx(2 * r.centre.z()).epsilon(1e-12));
+    CHECK(t.ceilingContact[i].z() == Approx(r.spin.ceilingHeight).epsilon(1e-12));
     CHECK(std::hypot(floor.x(), floor.y()) == Approx(radius).epsilon(1e-12));
     CHECK(std::hypot(ceiling.x(), ceiling.y()) == Approx(radius).epsilon(1e-12));
     // The ceiling contact lies over the raised end, at the axis' azimuth.
-    CHECK(angleDiffDeg(degrees(std::atan2(ceiling.y(), ceiling.x())), degrees(r.precession * t.time[i])) ==
+    CHECK(angleDiffDeg(degrees(std::atan2(ceiling.y(), ceiling.x())), degrees(r.spin.precession * t.time[i])) ==
           Approx(0).margin(1e-9));
   }
   // The marked point is the patch centre on end A's rim, moved rigidly.
-  const Vec3 expected = r.centre + r.orientation(t.time[100]) * Vec3(0.008, 0, r.body.length / 2);
+  const Vec3 expected = centreOf(r) + r.poseAt(t.time[100]).worldFromBody * Vec3(0.008, 0, r.body.length / 2);
   CHECK((t.points[0][100] - expected).norm() < 1e-15);
 }
 
 TEST_CASE("stops of a rim mark come at the analytic times, at rest, 360/N degrees apart", "[pattern]") {
-  const Rolling r = rolling(8, 6.5, 3.8);
+  const SteadyMotion r = rolling(8, 6.5, 3.8);
   const Analysed a = analyse(r, 1.0);
   // The patch centre (body azimuth 30 deg) reaches the top when
   // 30 deg + psi t = 360 k deg: t_k = (2 pi k - theta) / psi.
   const double theta = 30 * k::degree;
-  REQUIRE(a.stops.size() == std::size_t(std::floor((r.relativeSpin() * 1.0 + theta) / k::twoPi)));
+  REQUIRE(a.stops.size() == std::size_t(std::floor((r.spin.relativeSpin * 1.0 + theta) / k::twoPi)));
   for (std::size_t i = 0; i < a.stops.size(); ++i) {
     const StopEvent& s = a.stops[i];
-    const double expected = (k::twoPi * double(i + 1) - theta) / r.relativeSpin();
+    const double expected = (k::twoPi * double(i + 1) - theta) / r.spin.relativeSpin;
     // Bisection to 1e-13 s on the Hermite-interpolated pose; its error in
     // this motion, measured, moves the crossing by 5e-14 s.
     CHECK(s.time == Approx(expected).margin(1e-10));
@@ -261,16 +230,16 @@ TEST_CASE("stops of a rim mark come at the analytic times, at rest, 360/N degree
     // the linear interpolation of the spin between samples (measured 4 um/s).
     CHECK(s.horizontalSpeed < 2e-5);
     // The stop sits at the ceiling contact of that moment.
-    CHECK((s.position - ceilingContact(r.body, {r.centre, r.orientation(s.time)})).norm() < 1e-9);
+    CHECK((s.position - ceilingContact(r.body, {centreOf(r), r.poseAt(s.time).worldFromBody})).norm() < 1e-9);
     if (i == 0) continue;
-    const Vec3 d0 = a.stops[i - 1].position - r.centre, d1 = s.position - r.centre;
+    const Vec3 d0 = a.stops[i - 1].position - centreOf(r), d1 = s.position - centreOf(r);
     const double step = degrees(std::atan2(d1.y(), d1.x()) - std::atan2(d0.y(), d0.x()));
-    CHECK(std::remainder(step - 360 / r.n, 360.0) == Approx(0).margin(1e-6));
+    CHECK(std::remainder(step - 360 / r.spin.spotsPerRev, 360.0) == Approx(0).margin(1e-6));
   }
 }
 
 TEST_CASE("dwell is the time the mark stays slower than the threshold", "[pattern]") {
-  const Rolling r = rolling(12, 7, 4);
+  const SteadyMotion r = rolling(12, 7, 4);
   AnalysisSpec spec;
   spec.dwellSpeed = 0.05;
   const Analysed a = analyse(r, 0.3, spec);
@@ -278,7 +247,7 @@ TEST_CASE("dwell is the time the mark stays slower than the threshold", "[patter
   const Vec3 mark = a.points[0].body;
   // Reference: scan the exact motion's velocity in 0.1 us steps from the stop.
   auto speed = [&](double t) {
-    const Vec3 v = r.spin(t).cross(r.orientation(t) * mark);
+    const Vec3 v = r.spinAt(t).cross(r.poseAt(t).worldFromBody * mark);
     return std::hypot(v.x(), v.y());
   };
   for (const StopEvent& s : a.stops) {
@@ -294,7 +263,7 @@ TEST_CASE("dwell is the time the mark stays slower than the threshold", "[patter
 }
 
 TEST_CASE("a rational N = 4 gives four stationary spots at the analytic azimuths", "[pattern]") {
-  const Rolling r = rolling(5, 6, 4);
+  const SteadyMotion r = rolling(5, 6, 4);
   const Analysed a = analyse(r, 2.0);
   REQUIRE(a.windows.size() == 3);  // 1 s windows starting every 0.5 s over 2 s
   for (const PatternWindow& w : a.windows) {
@@ -305,7 +274,7 @@ TEST_CASE("a rational N = 4 gives four stationary spots at the analytic azimuths
     REQUIRE(w.spotsPerRev);
     CHECK(*w.spotsPerRev == Approx(4).epsilon(1e-9));
     CHECK(degrees(w.meanTilt) == Approx(5).epsilon(1e-9));
-    CHECK(w.meanPrecession == Approx(r.precession).epsilon(1e-9));
+    CHECK(w.meanPrecession == Approx(r.spin.precession).epsilon(1e-9));
     // Stop k at azimuth (360 k - 30) / N about the centre: 82.5 + 90 j deg.
     for (std::size_t j = 0; j < 4; ++j) {
       CHECK(angleDiffDeg(degrees(w.spots[j].azimuth), 82.5 + 90.0 * double(j)) == Approx(0).margin(1e-6));
@@ -367,12 +336,10 @@ TEST_CASE("spots drifting their own size within the eye time read as a ring", "[
 }
 
 TEST_CASE("the visible end is the raised one; a flat body shows none", "[pattern]") {
-  // Turn the motion upside down in body terms: end B up. Its patch stops,
-  // the one on end A does not.
-  Rolling r = rolling(6, 6, 4);
-  Trajectory tr = record(r, 1.0);
-  const Quat flip(Eigen::AngleAxisd(k::pi, Vec3::UnitX()));
-  for (Sample& s : tr.samples) s.orientation = s.orientation * flip;
+  // End B up: its patch stops, the one on end A does not.
+  SteadyMotion r = rolling(6, 6, 4);
+  r.raised = End::B;
+  const Trajectory tr = record(r, 1.0);
   Paint paint = patchOnA(0);
   paint.markings[0].end = End::B;
   paint.markings.push_back(patchOnA(0).markings[0]);
@@ -399,7 +366,7 @@ TEST_CASE("the visible end is the raised one; a flat body shows none", "[pattern
 }
 
 TEST_CASE("two marks on the raised end make their own spots, merged where they coincide", "[pattern]") {
-  const Rolling r = rolling(5, 6, 4);
+  const SteadyMotion r = rolling(5, 6, 4);
   const Trajectory tr = record(r, 1.0);
   // Patches at body 0 and 90 deg: with N = 4 their stops land 22.5 deg apart
   // (90 deg of body turn take a quarter of a stop interval); patches at 0 and
@@ -416,7 +383,7 @@ TEST_CASE("two marks on the raised end make their own spots, merged where they c
 }
 
 TEST_CASE("windows slide by the step and stop at the end of the record", "[pattern]") {
-  const Rolling r = rolling(5, 6, 4);
+  const SteadyMotion r = rolling(5, 6, 4);
   AnalysisSpec spec;
   spec.window = 0.4;
   spec.windowStep = 0.25;
@@ -436,7 +403,7 @@ TEST_CASE("a four-spot pattern blurred by scatter still counts four spots; more 
   // Hand-made stops: a quarter turn apart, four per revolution at 6 rev/s,
   // each thrown off its place by a scatter uniform in +-A (SplitMix64 with a
   // fixed seed, so the test repeats exactly).
-  const Rolling r = rolling(5, 6, 4);
+  const SteadyMotion r = rolling(5, 6, 4);
   const Trajectory tr = record(r, 1.0);
   const auto points = markedPoints(r.body, patchOnA(0), {});
   auto scattered = [&](double amplitudeDeg) {
@@ -447,7 +414,7 @@ TEST_CASE("a four-spot pattern blurred by scatter still counts four spots; more 
       const double az = (90.0 * i + amplitudeDeg * (2 * u - 1)) * k::degree;
       StopEvent s;
       s.time = (i + 0.5) / 24.0;
-      s.position = r.centre + 0.03 * Vec3(std::cos(az), std::sin(az), 0);
+      s.position = centreOf(r) + 0.03 * Vec3(std::cos(az), std::sin(az), 0);
       stops.push_back(s);
     }
     return patternWindows(tr, points, stops, {}).at(0);
