@@ -1,4 +1,6 @@
 // The scenario file: one field table, validation with named fields, round trips.
+#include <optional>
+
 #include <catch2/catch.hpp>
 
 #include "core/colour.hpp"
@@ -12,24 +14,26 @@ namespace {
 
 json demoDoc() { return readScenarioJson(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json"); }
 
-// The field named by the error a broken document raises ("" if none).
-std::string refusedField(const json& doc) {
+// The error a broken document raises, if any.
+std::optional<ScenarioError> refusalOf(const json& doc) {
   try {
     scenarioFromJson(doc);
   } catch (const ScenarioError& e) {
-    return e.field();
+    return e;
   }
-  return "";
+  return std::nullopt;
+}
+
+// The field named by the error a broken document raises ("" if none).
+std::string refusedField(const json& doc) {
+  const auto e = refusalOf(doc);
+  return e ? e->field() : "";
 }
 
 // The whole message of the error a broken document raises ("" if none).
 std::string refusal(const json& doc) {
-  try {
-    scenarioFromJson(doc);
-  } catch (const ScenarioError& e) {
-    return e.what();
-  }
-  return "";
+  const auto e = refusalOf(doc);
+  return e ? e->what() : "";
 }
 
 }  // namespace
