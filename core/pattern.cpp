@@ -33,6 +33,7 @@ void addMarkingPoints(const Cylinder& c, const Marking& m, std::size_t index, st
   switch (m.kind) {
     case MarkingKind::RimPatch: {
       const double span = patchSpan(m);
+      if (span == 0) return;  // paints a single azimuth: nothing to see
       out.push_back(rimMark(name + "_" + std::string(endName(m.end)), c, m.end, m.fromAngle + span / 2,
                             c.outerRadius * span));
       return;
@@ -239,7 +240,7 @@ struct Revisit {
 std::optional<Revisit> findRevisit(const std::vector<std::vector<SeenStop>>& seqs, double spotSize) {
   std::size_t longest = 0;
   for (const auto& seq : seqs) longest = std::max(longest, seq.size());
-  const int maxSpots = std::min(int(k::pi / spotSize), int(longest / 2));
+  const int maxSpots = int(std::min(k::pi / spotSize, double(longest / 2)));
   for (int p = 1; p <= maxSpots; ++p) {
     double sumShift = 0, sumSquare = 0, sumPeriod = 0;
     int pairs = 0;

@@ -518,3 +518,24 @@ TEST_CASE("four diameters long and barely tilted shows four spots; three diamete
     CHECK(degrees(last.patternDrift) == Approx(spin.driftDegPerSecond).epsilon(0.02));
   }
 }
+
+TEST_CASE("a tiny extra trace point finds its spots; a patch of zero span gives no point", "[pattern]") {
+  // A 0.05 mm point seen from 34 mm is 0.08 deg across: the spot count is
+  // then bounded by the stops in the window, not by the spot size.
+  const SteadyMotion r = rolling(5, 6, 4);
+  const Trajectory tr = record(r, 1.0);
+  TracePointSpec tiny;
+  tiny.angle = 1.0;
+  tiny.size = 5e-5;
+  Paint none;
+  Marking empty = patchOnA(0).markings[0];
+  empty.toAngle = empty.fromAngle;
+  none.markings = {empty};
+  const auto points = markedPoints(r.body, none, {tiny});
+  REQUIRE(points.size() == 1);
+  CHECK(points[0].label == "point0_A");
+  const PatternWindow w = patternWindows(tr, points, stopEvents(tr, points, 0.05), {}).at(0);
+  CHECK(degrees(w.spotSize) < 0.1);
+  CHECK(w.spots.size() == 4);
+  CHECK(w.kind == PatternKind::Stationary);
+}
