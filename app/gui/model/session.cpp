@@ -1,0 +1,305 @@
+#include "app/gui/model/session.hpp"
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+
+#include "core/constants.hpp"
+#include "core/flick.hpp"
+#include "core/io.hpp"
+#include "core/launch.hpp"
+
+namespace dm::gui {
+
+namespace {
+
+bool startsWith(const std::string& s, const char* prefix) { return s.rfind(prefix, 0) == 0; }
+
+// A number in the shortest text that reads back to the same double.
+std::string exactText(double v) {
+  char buf[40];
+  std::snprintf(buf, sizeof buf, "%.17g", v);
+  return buf;
+}
+
+// Most warnings kept: the metrics window shows the recent ones.
+constexpr std::size_t maxWarnings = 50;
+
+}  // namespace
+
+bool changesMotion(const std::string& path) {
+  if (path == "body.colour" || path == "body.bore_colour") return false;
+  if (path == "surface.name" || path == "surface.colour" || path == "surface.grid_mm" ||
+      path == "surface.table_radius_mm")
+    return false;
+  return startsWith(path, "body.") || startsWith(path, "surface.") || startsWith(path, "launch.") ||
+         startsWith(path, "run.") || startsWith(path, "contact.");
+}
+
+bool changesLook(const std::string& path) { return startsWith(path, "body.") || startsWith(path, "markings."); }
+
+void Timeline::clear() {
+  for (auto* v : {&time_s, &tilt_deg, &precession_rev_s, &spots_per_rev, &energy_mJ, &slip_mm_s}) v->clear();
+}
+
+Session::Session(Scenario scenario, std::string path) : scenario_(std::move(scenario)), path_(std::move(path)) {
+  savedJson_ = path_.empty() ? nlohmann::json() : scenarioToJson(scenario_);
+  restart();
+}
+
+bool Session::dirty() const { return scenarioToJson(scenario_) != savedJson_; }
+
+// ---- edits -----------------------------------------------------------------
+
+// The scenario as a file document, with the keys an edit may need that the
+// file form leaves out (a rod's wall, the density when a mass is given), so
+// switching shape or mass mode keeps the values the user had.
+nlohmann::json Session::editableDocument() const {
+  nlohmann::json doc = scenarioToJson(scenario_);
+  doc["body"]["wall_mm"] = findField("body.wall_mm")->getNumber(scenario_);
+  return doc;
+}
+
+EditOutcome Session::setNumber(const std::string& path, double fileValue) {
+  nlohmann::json doc = editableDocument();
+  try {
+    applyOverride(doc, path + "=" + exactText(fileValue));
+  } catch (const ScenarioError& e) {
+    return {false, false, e.what()};
+  }
+  // Mass and density are alternatives: a mass above zero replaces the density.
+  if (path == "body.mass_g") {
+    if (fileValue > 0) doc["body"].erase("density_kg_m3");
+    else doc["body"]["density_kg_m3"] = findField("body.density_kg_m3")->getNumber(scenario_);
+  }
+  if (path == "body.density_kg_m3") doc["body"].erase("mass_g");
+  return applyDocument(doc, changesMotion(path), changesLook(path));
+}
+
+EditOutcome Session::setText(const std::string& path, const std::string& value) {
+  nlohmann::json doc = editableDocument();
+  try {
+    applyOverride(doc, path + "=\"" + value + "\"");
+  } catch (const ScenarioError& e) {
+    return {false, false, e.what()};
+  }
+  return applyDocument(doc, changesMotion(path), changesLook(path));
+}
+
+EditOutcome Session::setMarkingNumber(std::size_t index, const std::string& path, double fileValue) {
+  return setNumber("markings." + std::to_string(index) + "." + path, fileValue);
+}
+
+EditOutcome Session::setMarkingText(std::size_t index, const std::string& path, const std::string& value) {
+  return setText("markings." + std::to_string(index) + "." + path, value);
+}
+
+EditOutcome Session::addMarking() {
+  Scenario next = scenario_;
+  Marking m;  // a rim patch on end A: the commonest mark
+  m.colour = {0.9, 0.1, 0.45};
+  next.paint.markings.push_back(m);
+  return commit(next, false, true);
+}
+
+EditOutcome Session::removeMarking(std::size_t index) {
+  if (index >= scenario_.paint.markings.size()) return {false, false, "markings: no marking " + std::to_string(index)};
+  Scenario next = scenario_;
+  next.paint.markings.erase(next.paint.markings.begin() + long(index));
+  return commit(next, false, true);
+}
+
+EditOutcome Session::replace(const Scenario& next) {
+  const bool motion = scenarioToJson(next).dump() != scenarioToJson(scenario_).dump();
+  return commit(next, motion, true);
+}
+
+EditOutcome Session::flick() {
+  Scenario next = scenario_;
+  next.launch = visitorFlick(scenario_.launch, flicks_);
+  const EditOutcome out = commit(next, true, false);
+  if (out.accepted) ++flicks_;
+  return out;
+}
+
+// Parses the edited document through the field table: the one validation.
+EditOutcome Session::applyDocument(const nlohmann::json& doc, bool motion, bool look) {
+  try {
+    return commit(scenarioFromJson(doc), motion, look);
+  } catch (const ScenarioError& e) {
+    return {false, false, e.what()};
+  }
+}
+
+EditOutcome Session::commit(Scenario next, bool motion, bool look) {
+  try {
+    validate(next);
+  } catch (const ScenarioError& e) {
+    return {false, false, e.what()};
+  }
+  scenario_ = std::move(next);
+  ++revision_;
+  if (look) ++lookRevision_;
+  if (motion) restart();
+  return {true, motion, {}};
+}
+
+// ---- files -----------------------------------------------------------------
+
+void Session::open(const std::string& path) {
+  Scenario s = loadScenario(path);  // throws before anything changes
+  scenario_ = std::move(s);
+  path_ = path;
+  savedJson_ = scenarioToJson(scenario_);
+  flicks_ = 0;
+  ++revision_;
+  ++lookRevision_;
+  restart();
+}
+
+void Session::saveAs(const std::string& path) {
+  const nlohmann::json doc = scenarioToJson(scenario_);
+  writeFileAtomic(path, doc.dump(2) + "\n");
+  path_ = path;
+  savedJson_ = doc;
+}
+
+void Session::reset(Scenario s) {
+  scenario_ = std::move(s);
+  path_.clear();
+  savedJson_ = nlohmann::json();
+  flicks_ = 0;
+  ++revision_;
+  ++lookRevision_;
+  restart();
+}
+
+// ---- transport -------------------------------------------------------------
+
+void Session::setSpeed(double factor) { speed_ = std::clamp(factor, minSpeed, maxSpeed); }
+
+void Session::setKeepSeconds(double seconds) { keepSeconds_ = std::clamp(seconds, 0.1, 20.0); }
+
+void Session::restart() {
+  live_ = LiveRun{};
+  live_.params = makeParams(scenario_);
+  live_.state = launchState(live_.params, scenario_.launch);
+  live_.totalSteps = long(std::llround(scenario_.run.duration / live_.params.timeStep));
+  // The launch is shown at once; its exact record (with the first step's
+  // contact report, as simulate() keeps it) replaces it after that step.
+  live_.recent.push_back(sampleOf(live_.params, live_.state, contacts(live_.params, live_.state)));
+  provisionalNow_ = true;
+  targetTime_ = 0;
+  ++motionRevision_;
+  startForecast();
+}
+
+void Session::record(const State& before, const Sample& sample) {
+  LiveRun& r = live_;
+  if (provisionalNow_) {
+    r.recent.back() = sample;
+    provisionalNow_ = false;
+  } else {
+    r.recent.push_back(sample);
+  }
+  // Sparse record at the trajectory.csv row spacing.
+  const long rowEvery = std::max(1L, long(std::llround(scenario_.run.sampleInterval / r.params.timeStep)));
+  const long index = r.steps;  // index of `before` among the run's samples
+  if (index % rowEvery == 0) r.record.push_back(sample);
+  // Plot series.
+  const long plotEvery = std::max(1L, long(std::llround(plotInterval / r.params.timeStep)));
+  if (index % plotEvery == 0) {
+    const AxisMotion m = axisMotion(sample.orientation, sample.spin);
+    r.timeline.time_s.push_back(sample.t);
+    r.timeline.tilt_deg.push_back(m.tilt / k::degree);
+    r.timeline.precession_rev_s.push_back(m.precession / k::twoPi);
+    r.timeline.spots_per_rev.push_back(m.precessing ? m.spotsPerRev : 0.0);
+    r.timeline.energy_mJ.push_back(energy(r.params, before) * 1e3);
+    r.timeline.slip_mm_s.push_back(double(sample.slip) * 1e3);
+  }
+  // Drop dense history older than the keep window (in chunks, amortised).
+  const std::size_t keep = std::size_t(keepSeconds_ / r.params.timeStep) + 2;
+  if (r.recent.size() > 2 * keep) r.recent.erase(r.recent.begin(), r.recent.end() - long(keep));
+}
+
+void Session::stepLive() {
+  LiveRun& r = live_;
+  if (r.finished()) return;
+  const State before = r.state;
+  const ContactReport c = step(r.params, r.state);
+  record(before, sampleOf(r.params, before, c));
+  ++r.steps;
+  if (!healthy(r.state)) {
+    r.fault = "numerical fault at t = " + fmt(r.state.t, 6) + " s (non-finite or runaway state); the run stopped";
+    warn(*r.fault);
+    return;
+  }
+  // The last state of the run is recorded with its own contacts, as simulate() does.
+  if (r.steps == r.totalSteps) record(r.state, sampleOf(r.params, r.state, contacts(r.params, r.state)));
+}
+
+void Session::stepOnce() { stepLive(); }
+
+AdvanceReport Session::advance(double wallSeconds, double budgetSeconds) {
+  AdvanceReport report;
+  if (!playing()) return report;
+  using Clock = std::chrono::steady_clock;
+  const auto start = Clock::now();
+  targetTime_ = std::max(targetTime_, live_.state.t) + wallSeconds * speed_;
+  const double h = live_.params.timeStep;
+  while (!live_.finished() && live_.state.t + h / 2 < targetTime_) {
+    stepLive();
+    ++report.steps;
+    // Check the clock every 64 steps (a few tens of microseconds).
+    if (report.steps % 64 == 0 && std::chrono::duration<double>(Clock::now() - start).count() > budgetSeconds) {
+      report.behind = true;
+      targetTime_ = live_.state.t;
+      break;
+    }
+  }
+  return report;
+}
+
+// ---- forecast ----------------------------------------------------------------
+
+void Session::startForecast() {
+  forecast_.reset();
+  const Scenario s = scenario_;
+  const std::uint64_t revision = motionRevision_;
+  forecastWorker_.submit([s, revision](JobControl& control) {
+    SimulateOptions options;
+    const long steps = long(std::llround(s.run.duration / s.run.timeStep));
+    const bool truncated = steps > maxForecastSteps;
+    if (truncated) options.duration = double(maxForecastSteps) * s.run.timeStep;
+    // Progress reports double as cancellation points.
+    options.progress = [&control](double f) {
+      control.progress = f;
+      control.check();
+    };
+    Forecast f;
+    f.motionRevision = revision;
+    f.run = simulate(s, options);
+    f.truncated = truncated;
+    return f;
+  });
+}
+
+void Session::poll() {
+  if (auto f = forecastWorker_.take(); f && f->motionRevision == motionRevision_) forecast_ = std::move(*f);
+  if (auto e = forecastWorker_.takeError()) warn("forecast failed: " + *e);
+}
+
+const Forecast* Session::forecast() const { return forecast_ ? &*forecast_ : nullptr; }
+
+void Session::waitForForecast() {
+  forecastWorker_.wait();
+  poll();
+}
+
+void Session::warn(std::string message) {
+  warnings_.push_back(std::move(message));
+  if (warnings_.size() > maxWarnings) warnings_.erase(warnings_.begin());
+}
+
+}  // namespace dm::gui
