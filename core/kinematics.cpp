@@ -23,6 +23,13 @@ AxisMotion axisMotion(const Quat& worldFromBody, const Vec3& w) {
   return m;
 }
 
+Vec3 rimUpDirection(const Quat& worldFromBody) {
+  const Vec3 a = worldFromBody * Vec3::UnitZ();
+  const Vec3 h = up() - a.z() * a;
+  const double n = h.norm();
+  return n > 1e-12 ? Vec3(h / n) : Vec3(worldFromBody * Vec3::UnitX());
+}
+
 double fastestSurfaceSpeed(const Cylinder& c, const Quat& q, const Vec3& v, const Vec3& w) {
   const Vec3 a = q * Vec3::UnitZ();
   const Vec3 e1 = q * Vec3::UnitX(), e2 = q * Vec3::UnitY();
