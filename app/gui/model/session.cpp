@@ -39,6 +39,12 @@ bool changesMotion(const std::string& path) {
 
 bool changesLook(const std::string& path) { return startsWith(path, "body.") || startsWith(path, "markings."); }
 
+bool changesAnalysis(const std::string& path) { return startsWith(path, "markings.") || startsWith(path, "analysis."); }
+
+Session::Effect Session::effectOf(const std::string& path) {
+  return {changesMotion(path), changesLook(path), changesAnalysis(path)};
+}
+
 void Timeline::clear() {
   for (auto* v : {&time_s, &tilt_deg, &precession_rev_s, &spots_per_rev, &energy_mJ, &slip_mm_s}) v->clear();
 }
@@ -74,7 +80,7 @@ EditOutcome Session::setNumber(const std::string& path, double fileValue) {
     else doc["body"]["density_kg_m3"] = findField("body.density_kg_m3")->getNumber(scenario_);
   }
   if (path == "body.density_kg_m3") doc["body"].erase("mass_g");
-  return applyDocument(doc, changesMotion(path), changesLook(path));
+  return applyDocument(doc, effectOf(path));
 }
 
 EditOutcome Session::setText(const std::string& path, const std::string& value) {
@@ -84,7 +90,7 @@ EditOutcome Session::setText(const std::string& path, const std::string& value) 
   } catch (const ScenarioError& e) {
     return {false, false, e.what()};
   }
-  return applyDocument(doc, changesMotion(path), changesLook(path));
+  return applyDocument(doc, effectOf(path));
 }
 
 EditOutcome Session::setMarkingNumber(std::size_t index, const std::string& path, double fileValue) {
@@ -100,39 +106,54 @@ EditOutcome Session::addMarking() {
   Marking m;  // a rim patch on end A: the commonest mark
   m.colour = {0.9, 0.1, 0.45};
   next.paint.markings.push_back(m);
-  return commit(next, false, true);
+  return commit(next, {false, true, true});
 }
 
 EditOutcome Session::removeMarking(std::size_t index) {
   if (index >= scenario_.paint.markings.size()) return {false, false, "markings: no marking " + std::to_string(index)};
   Scenario next = scenario_;
   next.paint.markings.erase(next.paint.markings.begin() + long(index));
-  return commit(next, false, true);
+  return commit(next, {false, true, true});
+}
+
+EditOutcome Session::addTracePoint() {
+  Scenario next = scenario_;
+  next.analysis.tracePoints.push_back(TracePointSpec{});
+  return commit(next, {false, false, true});
+}
+
+EditOutcome Session::removeTracePoint(std::size_t index) {
+  auto& points = scenario_.analysis.tracePoints;
+  if (index >= points.size())
+    return {false, false, "analysis.trace_points: no trace point " + std::to_string(index)};
+  Scenario next = scenario_;
+  next.analysis.tracePoints.erase(next.analysis.tracePoints.begin() + long(index));
+  return commit(next, {false, false, true});
 }
 
 EditOutcome Session::replace(const Scenario& next) {
   const bool motion = scenarioToJson(next).dump() != scenarioToJson(scenario_).dump();
-  return commit(next, motion, true);
+  return commit(next, {motion, true, true});
 }
 
 EditOutcome Session::flick() {
   Scenario next = scenario_;
   next.launch = visitorFlick(scenario_.launch, flicks_);
-  const EditOutcome out = commit(next, true, false);
+  const EditOutcome out = commit(next, {true, false, false});
   if (out.accepted) ++flicks_;
   return out;
 }
 
 // Parses the edited document through the field table: the one validation.
-EditOutcome Session::applyDocument(const nlohmann::json& doc, bool motion, bool look) {
+EditOutcome Session::applyDocument(const nlohmann::json& doc, Effect effect) {
   try {
-    return commit(scenarioFromJson(doc), motion, look);
+    return commit(scenarioFromJson(doc), effect);
   } catch (const ScenarioError& e) {
     return {false, false, e.what()};
   }
 }
 
-EditOutcome Session::commit(Scenario next, bool motion, bool look) {
+EditOutcome Session::commit(Scenario next, Effect effect) {
   try {
     validate(next);
   } catch (const ScenarioError& e) {
@@ -140,9 +161,10 @@ EditOutcome Session::commit(Scenario next, bool motion, bool look) {
   }
   scenario_ = std::move(next);
   ++revision_;
-  if (look) ++lookRevision_;
-  if (motion) restart();
-  return {true, motion, {}};
+  if (effect.look) ++lookRevision_;
+  if (effect.motion) restart();
+  else if (effect.analysis) startForecast();
+  return {true, effect.motion, {}};
 }
 
 // ---- files -----------------------------------------------------------------
@@ -281,6 +303,8 @@ void Session::startForecast() {
     f.motionRevision = revision;
     f.run = simulate(s, options);
     f.truncated = truncated;
+    control.check();
+    f.pattern = analysePattern(s, f.run);
     return f;
   });
 }
@@ -291,6 +315,14 @@ void Session::poll() {
 }
 
 const Forecast* Session::forecast() const { return forecast_ ? &*forecast_ : nullptr; }
+
+const PatternWindow* Session::patternAt(double t) const {
+  if (!forecast_) return nullptr;
+  const PatternWindow* found = nullptr;
+  for (const PatternWindow& w : forecast_->pattern.windows)
+    if (w.start <= t) found = &w;
+  return found;
+}
 
 void Session::waitForForecast() {
   forecastWorker_.wait();

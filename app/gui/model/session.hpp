@@ -15,6 +15,7 @@
 #include "app/gui/model/worker.hpp"
 #include "core/dynamics.hpp"
 #include "core/kinematics.hpp"
+#include "core/pattern.hpp"
 #include "core/scenario.hpp"
 #include "core/simulate.hpp"
 
@@ -57,10 +58,12 @@ struct LiveRun {
   const Sample& now() const { return recent.back(); }
 };
 
-/// A finished forecast: the whole run of one revision of the scenario.
+/// A finished forecast: the whole run of one revision of the scenario and
+/// its pattern analysis (spots, drift, visible end per time window).
 struct Forecast {
   std::uint64_t motionRevision = 0;
   RunResult run;
+  PatternAnalysis pattern;
   bool truncated = false;  ///< covers only the first maxForecastSteps steps
 };
 
@@ -90,6 +93,9 @@ class Session {
   EditOutcome setMarkingText(std::size_t index, const std::string& path, const std::string& value);
   EditOutcome addMarking();
   EditOutcome removeMarking(std::size_t index);
+  /// Extra traced rim points (analysis.trace_points).
+  EditOutcome addTracePoint();
+  EditOutcome removeTracePoint(std::size_t index);
   /// Replaces the whole scenario (preset, flick); restarts when the motion changes.
   EditOutcome replace(const Scenario& next);
   /// Replaces the launch with the next visitor flick drawn from the seed.
@@ -135,6 +141,9 @@ class Session {
   void poll();
   /// The forecast of the current motion, if finished.
   const Forecast* forecast() const;
+  /// The forecast's pattern window holding simulated time t (the latest
+  /// one starting at or before t), if any.
+  const PatternWindow* patternAt(double t) const;
   bool forecastBusy() const { return forecastWorker_.busy(); }
   double forecastProgress() const { return forecastWorker_.progress(); }
   /// Blocks until the forecast is done (scripted runs and tests).
@@ -144,8 +153,13 @@ class Session {
   void clearWarnings() { warnings_.clear(); }
 
  private:
-  EditOutcome applyDocument(const nlohmann::json& doc, bool motion, bool look);
-  EditOutcome commit(Scenario next, bool motion, bool look);
+  /// What an accepted edit invalidates.
+  struct Effect {
+    bool motion = false, look = false, analysis = false;
+  };
+  static Effect effectOf(const std::string& path);
+  EditOutcome applyDocument(const nlohmann::json& doc, Effect effect);
+  EditOutcome commit(Scenario next, Effect effect);
   nlohmann::json editableDocument() const;
   void stepLive();
   void record(const State& before, const Sample& sample);
@@ -171,5 +185,8 @@ class Session {
 bool changesMotion(const std::string& path);
 /// True when a change of this field path changes how the body looks.
 bool changesLook(const std::string& path);
+/// True when a change of this field path changes the forecast's pattern
+/// analysis without changing the motion (paint, analysis settings).
+bool changesAnalysis(const std::string& path);
 
 }  // namespace dm::gui
