@@ -97,6 +97,7 @@ nlohmann::json patternJson(const std::vector<PatternWindow>& windows) {
     j["revs_per_visit"] = w.revsPerVisit;
     j["pattern_drift_deg_s"] = w.patternDrift * degPerRad;
     j["spot_size_deg"] = w.spotSize * degPerRad;
+    j["spot_spread_deg"] = w.spotSpread * degPerRad;
     j["stop_count"] = w.stopCount;
     j["mean_tilt_deg"] = w.meanTilt * degPerRad;
     j["mean_precession_rev_s"] = w.meanPrecession / k::twoPi;
@@ -143,8 +144,7 @@ nlohmann::json summaryJson(const RunResult& r) {
   j["energy_final_mJ"] = s.energyFinal * 1e3;
   j["end_time_s"] = s.endTime;
   j["creep_bound"] = {{"model", "stick spring with Coulomb slip limit (Cundall-Strack)"},
-                      {"max_slip_to_rim_speed_ratio", creepBoundRatio},
-                      {"measured_max_slip_to_rim_speed_ratio_rolling", s.maxRollingSlipRatio}};
+                      {"max_slip_to_rim_speed_ratio", creepBoundRatio}};
   j["mass_g"] = r.params.inertia.mass * 1e3;
   j["time_step_us"] = r.params.timeStep * 1e6;
   if (r.fault) {

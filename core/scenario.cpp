@@ -87,7 +87,7 @@ std::vector<Field<Scenario>> buildScenarioFields() {
   f.push_back(number<S>("body.outer_diameter_mm", "mm", 1, 500, mm,
                         [](S& s) -> double& { return s.body.outerDiameter; }, "outer diameter D", true));
   f.push_back(number<S>("body.wall_mm", "mm", 0.05, 250, mm, [](S& s) -> double& { return s.body.wall; },
-                        "wall thickness of a tube or ring (less than the outer radius)"));
+                        "wall thickness of a tube or ring (less than the outer radius); ignored for rod and disk"));
   f.push_back(number<S>("body.density_kg_m3", "kg/m^3", 10, 25000, 1,
                         [](S& s) -> double& { return s.body.density; }, "material density (used unless mass_g is set)"));
   f.push_back(number<S>("body.mass_g", "g", 0, 10000, 1e-3, [](S& s) -> double& { return s.body.mass; },
@@ -481,9 +481,10 @@ Scenario defaultScenario() {
 }
 
 void validate(const Scenario& s) {
-  for (const auto& f : scenarioFields()) checkRange(f, s, "");
   const BodySpec& b = s.body;
   const bool hollow = isHollow(b.shape);
+  for (const auto& f : scenarioFields())
+    if (hollow || f.path != "body.wall_mm") checkRange(f, s, "");
   if (hollow && !(b.wall < b.outerDiameter / 2))
     throw ScenarioError("body.wall_mm", "value " + describe(b.wall / mm) + " must be less than the outer radius " +
                                             describe(b.outerDiameter / 2 / mm) + " mm");

@@ -53,12 +53,12 @@ struct LaunchSpec {
 
 struct RunSpec {
   double duration = 10.0;        ///< simulated time, s
-  double timeStep = 1e-4;        ///< integrator step, s
+  double timeStep = 2.5e-4;      ///< integrator step, s
   double sampleInterval = 1e-3;  ///< trajectory.csv row spacing, s
 };
 
 struct ContactSpec {
-  double frequency = 6.283185307179586 * 250;  ///< natural frequency of the body on its contact, rad/s
+  double frequency = 6.283185307179586 * 100;  ///< natural frequency of the body on its contact, rad/s
 };
 
 enum class ViewKind { Top, Visitor };
