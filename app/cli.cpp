@@ -18,6 +18,7 @@ int runCli(int argc, char** argv, GuiRunner gui) {
   app.require_subcommand(1);
   Commands commands;
   addSimulateCommand(app, commands);
+  addParamsCommand(app, commands);
   addGuiCommand(app, commands, std::move(gui));
   try {
     app.parse(argc, argv);

@@ -10,6 +10,7 @@
 namespace dm {
 
 std::string trajectoryCsv(const RunResult& r, double sampleInterval) {
+  // Rows fall on whole steps: the scenario makes the step divide the row spacing.
   std::ostringstream o;
   o << "t_s,x_mm,y_mm,z_mm,qw,qx,qy,qz,wx_rad_s,wy_rad_s,wz_rad_s,tilt_deg,precession_rev_s,spots_per_rev,"
        "raised_end,phase,slip_mm_s,normal_N,energy_mJ\n";

@@ -53,8 +53,9 @@ struct LaunchSpec {
 
 struct RunSpec {
   double duration = 10.0;        ///< simulated time, s
-  double timeStep = 2.5e-4;      ///< integrator step, s
   double sampleInterval = 1e-3;  ///< trajectory.csv row spacing, s
+  int substeps = 3;              ///< integrator steps per row: the step is sampleInterval / substeps
+  double timeStep() const { return sampleInterval / substeps; }  ///< integrator step, s
 };
 
 struct ContactSpec {

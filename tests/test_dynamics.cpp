@@ -143,7 +143,7 @@ TEST_CASE("a 4:1 tube started in its steady spin holds it, with no creep", "[dyn
   }
 }
 
-TEST_CASE("a torque-free body conserves energy and angular momentum; the intermediate axis is unstable", "[dynamics][validation]") {
+TEST_CASE("a torque-free body conserves energy and angular momentum, and the intermediate axis is unstable", "[dynamics][validation]") {
   // Landau & Lifshitz, Mechanics, section 37: free rotation conserves energy
   // and angular momentum; rotation about the axis of intermediate moment is
   // unstable, about the largest and smallest stable. Conservation to 1e-6

@@ -291,9 +291,9 @@ void Session::startForecast() {
   const std::uint64_t revision = motionRevision_;
   forecastWorker_.submit([s, revision](JobControl& control) {
     SimulateOptions options;
-    const long steps = long(std::llround(s.run.duration / s.run.timeStep));
+    const long steps = long(std::llround(s.run.duration / s.run.timeStep()));
     const bool truncated = steps > maxForecastSteps;
-    if (truncated) options.duration = double(maxForecastSteps) * s.run.timeStep;
+    if (truncated) options.duration = double(maxForecastSteps) * s.run.timeStep();
     // Progress reports double as cancellation points.
     options.progress = [&control](double f) {
       control.progress = f;
