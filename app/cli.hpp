@@ -28,6 +28,11 @@ struct Commands {
 void addSimulateCommand(CLI::App& app, Commands& commands);
 void addParamsCommand(CLI::App& app, Commands& commands);
 
+/// `steady`: the analytic steady spin at a precession rate or a tilt (app/cmd_steady.cpp).
+void addSteadyCommand(CLI::App& app, Commands& commands);
+/// `advise`: the dimension advisor (app/cmd_advise.cpp).
+void addAdviseCommand(CLI::App& app, Commands& commands);
+
 /// The scenario field table as Markdown (the README's parameter table).
 std::string parameterTableMarkdown();
 
