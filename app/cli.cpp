@@ -18,6 +18,7 @@ int runCli(int argc, char** argv) {
   app.require_subcommand(1);
   Commands commands;
   addSimulateCommand(app, commands);
+  addParamsCommand(app, commands);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -26,6 +26,10 @@ struct Commands {
 };
 
 void addSimulateCommand(CLI::App& app, Commands& commands);
+void addParamsCommand(CLI::App& app, Commands& commands);
+
+/// The scenario field table as Markdown (the README's parameter table).
+std::string parameterTableMarkdown();
 
 /// Reads a scenario file, applies `--set key.path=value` overrides, parses
 /// and validates it (throws ScenarioError).

@@ -28,6 +28,12 @@ inline constexpr int slotCount = 2 * slotsPerEnd;
 struct Params {
   Cylinder body;
   MassProperties inertia;
+  /// Principal moments about body x, y, z, kg m^2: (I_t, I_t, I_a) for the
+  /// cylinder. Kept separate so the integrator can be checked on a body
+  /// with three distinct moments.
+  Vec3 principal = Vec3::Ones();
+  Vec3 inversePrincipal = Vec3::Ones();  ///< 1 / principal, 1/(kg m^2)
+  double inverseMass = 1;                ///< 1/kg
   double frictionStatic = 0.45;   ///< -
   double frictionKinetic = 0.35;  ///< -
   double rollingResistance = 0;   ///< c_rr, -
@@ -44,6 +50,8 @@ struct Params {
 
 /// Derives the run parameters (stiffness, damping, drag) from a scenario.
 Params makeParams(const Scenario& s);
+/// Sets the principal moments (and their inverses) of `p`.
+void setInertia(Params& p, const Vec3& principal);
 
 /// Per-slot friction memory: the accumulated slip of the contact (stick
 /// spring elongation, lab frame, horizontal, metres) and whether it slid
@@ -92,6 +100,9 @@ ContactReport step(const Params& p, State& s);
 /// Mechanical energy, J: kinetic + gravitational (table top = 0) + the
 /// elastic energy stored in the contact springs.
 double energy(const Params& p, const State& s);
+/// The same, from the state's contact report (no extra force evaluation).
+/// The report must be that of `s` with its springs as they are now.
+double energy(const Params& p, const State& s, const ContactReport& c);
 
 /// Spin axis direction in the lab (body z, towards end A).
 inline Vec3 axisOf(const State& s) { return s.orientation * Vec3::UnitZ(); }

@@ -9,6 +9,7 @@
 namespace dm {
 
 std::string trajectoryCsv(const RunResult& r, double sampleInterval) {
+  // Rows fall on whole steps: the scenario makes the step divide the row spacing.
   std::ostringstream o;
   o << "t_s,x_mm,y_mm,z_mm,qw,qx,qy,qz,wx_rad_s,wy_rad_s,wz_rad_s,tilt_deg,precession_rev_s,spots_per_rev,"
        "raised_end,phase,slip_mm_s,normal_N,energy_mJ\n";
@@ -49,8 +50,7 @@ nlohmann::json summaryJson(const RunResult& r) {
   j["energy_final_mJ"] = s.energyFinal * 1e3;
   j["end_time_s"] = s.endTime;
   j["creep_bound"] = {{"model", "stick spring with Coulomb slip limit (Cundall-Strack)"},
-                      {"max_slip_to_rim_speed_ratio", creepBoundRatio},
-                      {"measured_max_slip_to_rim_speed_ratio_rolling", s.maxRollingSlipRatio}};
+                      {"max_slip_to_rim_speed_ratio", creepBoundRatio}};
   j["mass_g"] = r.params.inertia.mass * 1e3;
   j["time_step_us"] = r.params.timeStep * 1e6;
   if (r.fault) {

@@ -1,6 +1,7 @@
 #include "core/kinematics.hpp"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 
 #include "core/constants.hpp"
@@ -23,18 +24,28 @@ AxisMotion axisMotion(const Quat& worldFromBody, const Vec3& w) {
   return m;
 }
 
+namespace {
+
+// Rim sample directions (cos, sin) at 32 even azimuths: the largest speed
+// over 32 samples is within 0.5 % of the true maximum (1 - cos(pi/32)).
+constexpr int rimSamples = 32;
+const std::array<std::array<double, 2>, rimSamples> rimDirections = [] {
+  std::array<std::array<double, 2>, rimSamples> t{};
+  for (int i = 0; i < rimSamples; ++i) t[i] = {std::cos(k::twoPi * i / rimSamples), std::sin(k::twoPi * i / rimSamples)};
+  return t;
+}();
+
+}  // namespace
+
 double fastestSurfaceSpeed(const Cylinder& c, const Quat& q, const Vec3& v, const Vec3& w) {
-  const Vec3 a = q * Vec3::UnitZ();
-  const Vec3 e1 = q * Vec3::UnitX(), e2 = q * Vec3::UnitY();
-  double best = 0;
-  constexpr int n = 32;  // rim samples per end: within 0.5 % of the true maximum
-  for (double sign : {1.0, -1.0})
-    for (int i = 0; i < n; ++i) {
-      const double th = k::twoPi * i / n;
-      const Vec3 r = sign * c.length / 2 * a + c.outerRadius * (std::cos(th) * e1 + std::sin(th) * e2);
-      best = std::max(best, (v + w.cross(r)).norm());
-    }
-  return best;
+  const Mat3 rot = q.toRotationMatrix();
+  // Surface point velocity: v + w x (end offset) + R (cos w x e1 + sin w x e2).
+  const Vec3 we1 = c.outerRadius * w.cross(rot.col(0)), we2 = c.outerRadius * w.cross(rot.col(1));
+  const Vec3 wa = c.length / 2 * w.cross(rot.col(2));
+  double best2 = 0;
+  for (const Vec3& base : {Vec3(v + wa), Vec3(v - wa)})
+    for (const auto& [cs, sn] : rimDirections) best2 = std::max(best2, (base + cs * we1 + sn * we2).squaredNorm());
+  return std::sqrt(best2);
 }
 
 }  // namespace dm

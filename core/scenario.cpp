@@ -17,6 +17,17 @@ namespace {
 
 using json = nlohmann::json;
 
+std::string describe(double v) {
+  std::ostringstream o;
+  o.precision(10);
+  o << v;
+  return o.str();
+}
+
+std::string rangeText(double lo, double hi, const std::string& unit) {
+  return "allowed " + describe(lo) + " to " + describe(hi) + (unit == "-" ? "" : " " + unit);
+}
+
 // ---- field constructors --------------------------------------------------
 
 // A number stored in SI at `ref`, shown in file units: file = SI / toSI.
@@ -87,7 +98,7 @@ std::vector<Field<Scenario>> buildScenarioFields() {
   f.push_back(number<S>("body.outer_diameter_mm", "mm", 1, 500, mm,
                         [](S& s) -> double& { return s.body.outerDiameter; }, "outer diameter D", true));
   f.push_back(number<S>("body.wall_mm", "mm", 0.05, 250, mm, [](S& s) -> double& { return s.body.wall; },
-                        "wall thickness of a tube or ring (less than the outer radius)"));
+                        "wall thickness of a tube or ring (less than the outer radius); ignored for rod and disk"));
   f.push_back(number<S>("body.density_kg_m3", "kg/m^3", 10, 25000, 1,
                         [](S& s) -> double& { return s.body.density; }, "material density (used unless mass_g is set)"));
   f.push_back(number<S>("body.mass_g", "g", 0, 10000, 1e-3, [](S& s) -> double& { return s.body.mass; },
@@ -145,10 +156,20 @@ std::vector<Field<Scenario>> buildScenarioFields() {
   // run and numerics
   f.push_back(number<S>("run.duration_s", "s", 0.01, 600, 1, [](S& s) -> double& { return s.run.duration; },
                         "simulated time", true));
-  f.push_back(number<S>("run.time_step_us", "us", 5, 1000, 1e-6, [](S& s) -> double& { return s.run.timeStep; },
-                        "integrator step (RK4)"));
   f.push_back(number<S>("run.sample_ms", "ms", 0.05, 100, 1e-3,
                         [](S& s) -> double& { return s.run.sampleInterval; }, "trajectory.csv row spacing"));
+  {
+    Field<S> sub;
+    sub.path = "run.substeps";
+    sub.type = FieldType::Integer;
+    sub.unit = "-";
+    sub.min = 1;
+    sub.max = 1000;
+    sub.help = "integrator (RK4) steps per row; the step is sample_ms / substeps";
+    sub.getNumber = [](const S& s) { return double(s.run.substeps); };
+    sub.setNumber = [](S& s, double v) { s.run.substeps = int(v); };
+    f.push_back(sub);
+  }
   f.push_back(number<S>("contact.frequency_hz", "Hz", 50, 2000, hz,
                         [](S& s) -> double& { return s.contact.frequency; },
                         "natural frequency of the body resting on its contact (sets the stiffness)"));
@@ -263,17 +284,6 @@ std::vector<Field<Marking>> buildMarkingFields() {
   return f;
 }
 
-std::string describe(double v) {
-  std::ostringstream o;
-  o.precision(10);
-  o << v;
-  return o.str();
-}
-
-std::string rangeText(double lo, double hi, const std::string& unit) {
-  return "allowed " + describe(lo) + " to " + describe(hi) + (unit == "-" ? "" : " " + unit);
-}
-
 template <class T>
 void checkRange(const Field<T>& f, const T& s, const std::string& prefix) {
   if (f.type != FieldType::Number && f.type != FieldType::Integer) return;
@@ -294,7 +304,7 @@ void setFromJson(const Field<T>& f, T& target, const json& v, const std::string&
       if (f.type == FieldType::Integer && (std::floor(x) != x))
         throw ScenarioError(path, "expected a whole number, got " + v.dump());
       if (!(x >= f.min && x <= f.max))
-        throw ScenarioError(path, "value " + v.dump() + " is out of range; " + rangeText(f.min, f.max, f.unit));
+        throw ScenarioError(path, "value " + describe(x) + " is out of range; " + rangeText(f.min, f.max, f.unit));
       f.setNumber(target, x);
       return;
     }
@@ -434,9 +444,10 @@ Scenario defaultScenario() {
 }
 
 void validate(const Scenario& s) {
-  for (const auto& f : scenarioFields()) checkRange(f, s, "");
   const BodySpec& b = s.body;
   const bool hollow = isHollow(b.shape);
+  for (const auto& f : scenarioFields())
+    if (hollow || f.path != "body.wall_mm") checkRange(f, s, "");
   if (hollow && !(b.wall < b.outerDiameter / 2))
     throw ScenarioError("body.wall_mm", "value " + describe(b.wall / mm) + " must be less than the outer radius " +
                                             describe(b.outerDiameter / 2 / mm) + " mm");
@@ -453,9 +464,13 @@ void validate(const Scenario& s) {
     throw ScenarioError("surface.friction_kinetic", "value " + describe(s.surface.frictionKinetic) +
                                                         " exceeds surface.friction_static " +
                                                         describe(s.surface.frictionStatic) + "; allowed 0 to the static value");
-  if (s.run.sampleInterval < s.run.timeStep)
-    throw ScenarioError("run.sample_ms", "value " + describe(s.run.sampleInterval / 1e-3) +
-                                             " ms is shorter than run.time_step_us " + describe(s.run.timeStep / 1e-6) + " us");
+  // The step must resolve the contact: at most a twentieth of its period.
+  const double step = s.run.timeStep(), longest = 0.05 * k::twoPi / s.contact.frequency;
+  if (step > longest)
+    throw ScenarioError("run.substeps", "value " + describe(s.run.substeps) + " gives a " + describe(step * 1e6) +
+                                            " us step, longer than a twentieth of the contact period (" +
+                                            describe(longest * 1e6) + " us); allowed at least " +
+                                            describe(std::ceil(s.run.sampleInterval / longest)));
   validateObserver(s.observer);
   for (std::size_t i = 0; i < s.paint.markings.size(); ++i) {
     const Marking& m = s.paint.markings[i];

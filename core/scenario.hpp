@@ -53,12 +53,13 @@ struct LaunchSpec {
 
 struct RunSpec {
   double duration = 10.0;        ///< simulated time, s
-  double timeStep = 1e-4;        ///< integrator step, s
   double sampleInterval = 1e-3;  ///< trajectory.csv row spacing, s
+  int substeps = 3;              ///< integrator steps per row: the step is sampleInterval / substeps
+  double timeStep() const { return sampleInterval / substeps; }  ///< integrator step, s
 };
 
 struct ContactSpec {
-  double frequency = 6.283185307179586 * 250;  ///< natural frequency of the body on its contact, rad/s
+  double frequency = 6.283185307179586 * 100;  ///< natural frequency of the body on its contact, rad/s
 };
 
 enum class ViewKind { Top, Visitor };

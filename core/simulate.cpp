@@ -13,12 +13,12 @@ namespace {
 
 bool isRimRolling(Phase p) { return p == Phase::RollingA || p == Phase::RollingB; }
 
-// Spin about the vertical below which a flat body counts as stopped, rad/s
-// (about one revolution a minute).
+// Angular speed below which a body lying flat has stopped spinning and
+// rolling, rad/s (about one revolution a minute).
 constexpr double flatStoppedSpin = 0.1;
 
 bool restLike(const Sample& s) {
-  return s.phase == Phase::AtRest || (s.phase == Phase::LyingFlat && std::abs(s.spin.z()) < flatStoppedSpin);
+  return s.phase == Phase::AtRest || (s.phase == Phase::LyingFlat && s.spin.norm() < flatStoppedSpin);
 }
 
 RunSummary summarise(const Params& p, const Trajectory& tr, End pressedEnd) {
@@ -46,10 +46,6 @@ RunSummary summarise(const Params& p, const Trajectory& tr, End pressedEnd) {
     r.maxExcursion = std::max(r.maxExcursion, std::hypot(d.x(), d.y()));
     // Surface speed every 10 steps: the maximum changes slowly.
     if (i % 10 == 0) r.maxSurfaceSpeed = std::max(r.maxSurfaceSpeed, fastestSurfaceSpeed(p.body, s.orientation, s.velocity, s.spin));
-    if (isRimRolling(s.phase)) {
-      const double rim = p.body.outerRadius * s.spin.norm();
-      if (rim > 1e-6) r.maxRollingSlipRatio = std::max(r.maxRollingSlipRatio, double(s.slip) / rim);
-    }
   }
   return r;
 }
@@ -98,7 +94,7 @@ RunResult simulateFrom(const Params& p, const State& initial, double duration, d
     sample.slip = float(c.maxSlip());
     sample.normal = float(c.totalNormal());
     result.trajectory.samples.push_back(sample);
-    if (n % rowEvery == 0) result.energyAt.push_back(energy(p, before));
+    if (n % rowEvery == 0) result.energyAt.push_back(energy(p, before, c));
     if (options.progress && n % 20000 == 0) options.progress(double(n) / double(std::max(1L, steps)));
     if (n == steps) break;
     if (!healthy(s)) {

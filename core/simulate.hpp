@@ -35,7 +35,6 @@ struct RunSummary {
   double maxExcursion = 0;             ///< m, largest horizontal distance of the centre from its start
   double maxSurfaceSpeed = 0;          ///< m/s, fastest surface point
   double energyInitial = 0, energyFinal = 0;  ///< J
-  double maxRollingSlipRatio = 0;      ///< largest slip / rim speed while rolling on a rim
   double endTime = 0;                  ///< s, last recorded time
 };
 

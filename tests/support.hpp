@@ -1,0 +1,66 @@
+// Helpers shared by the tests: scenarios built inline, dissipation switched
+// off, and initial states placed exactly on the rigid steady spin.
+#pragma once
+#include <cmath>
+#include <cstdint>
+
+#include "core/constants.hpp"
+#include "core/dynamics.hpp"
+#include "core/scenario.hpp"
+
+namespace dm::test {
+
+/// A valid scenario for a body, dissipation-free unless told otherwise.
+inline Scenario bodyScenario(Shape shape, double length, double diameter, double wall, double density = 1180) {
+  Scenario s = defaultScenario();
+  s.body.shape = shape;
+  s.body.length = length;
+  s.body.outerDiameter = diameter;
+  s.body.wall = wall;
+  s.body.density = density;
+  s.body.mass = 0;
+  s.surface.rollingResistance = 0;
+  s.surface.pivotFriction = 0;
+  s.surface.airDrag = 0;
+  validate(s);
+  return s;
+}
+
+/// Frame whose z is `axis` and whose x points up within the end plane.
+inline Quat frameAlong(const Vec3& axis) {
+  Vec3 x = up() - axis.z() * axis;
+  x = x.norm() > 1e-12 ? Vec3(x.normalized()) : Vec3(Vec3::UnitX());
+  Mat3 m;
+  m.col(0) = x;
+  m.col(1) = axis.cross(x);
+  m.col(2) = axis;
+  return Quat(m).normalized();
+}
+
+/// Rigid steady spin with a fixed centre at tilt `alpha` (end A raised,
+/// axis azimuth 0), from the torque balance of physics.md section 3
+/// (our derivation): W^2 cos a (I_a (L/D) cos a - I_t sin a) = m g ((L/2) cos a - R sin a),
+/// relative spin W ((L/D) cos a - sin a). The centre is lowered by the
+/// static deflection m g / k so the compliant contact starts in balance.
+struct SteadyStart {
+  State state;
+  double precession = 0;  ///< rad/s
+  double relativeSpin = 0;
+};
+
+inline SteadyStart steadyStart(const Params& p, double alpha) {
+  const double L = p.body.length, R = p.body.outerRadius, D = 2 * R;
+  const double Ia = p.principal.z(), It = p.principal.x(), m = p.inertia.mass, g = p.gravity;
+  const double c = std::cos(alpha), s = std::sin(alpha);
+  const double w2 = m * g * (L / 2 * c - R * s) / (c * (Ia * (L / D) * c - It * s));
+  SteadyStart r;
+  r.precession = std::sqrt(w2);
+  r.relativeSpin = r.precession * ((L / D) * c - s);
+  const Vec3 axis(c, 0, s);
+  r.state.orientation = frameAlong(axis);
+  r.state.position = Vec3(0, 0, L / 2 * s + R * c - m * g / p.normalStiffness);
+  r.state.spinBody = r.state.orientation.conjugate() * Vec3(r.precession * up() + r.relativeSpin * axis);
+  return r;
+}
+
+}  // namespace dm::test

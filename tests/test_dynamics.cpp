@@ -1,0 +1,248 @@
+// Validation of the physics core against outside values (sources beside each
+// check) and against our own steady-spin derivation.
+#include <algorithm>
+#include <cmath>
+
+#include <catch2/catch.hpp>
+
+#include "core/kinematics.hpp"
+#include "core/launch.hpp"
+#include "core/random.hpp"
+#include "core/simulate.hpp"
+#include "support.hpp"
+
+using namespace dm;
+using dm::test::bodyScenario;
+
+namespace {
+
+// A body lying on its side, axis along lab y, at the static deflection.
+State lyingAlongY(const Params& p, const Vec3& velocity, double axialSpin) {
+  State s;
+  s.orientation = test::frameAlong(Vec3::UnitY());
+  s.position = Vec3(0, 0, p.body.outerRadius - p.inertia.mass * p.gravity / (2 * p.normalStiffness));
+  s.velocity = velocity;
+  s.spinBody = Vec3(0, 0, axialSpin);
+  return s;
+}
+
+struct RollOnset {
+  double time = -1;   // s, when the contact stops slipping
+  double speed = 0;   // m/s, centre speed once rolling
+};
+
+// Runs until the contact slip falls below 1 mm/s, then reads the speed a
+// little later (rolling without resistance keeps it constant).
+RollOnset rollOnset(const Params& p, State s, double maxTime) {
+  RollOnset r;
+  while (s.t < maxTime) {
+    const ContactReport c = step(p, s);
+    if (c.activeA + c.activeB > 0 && c.maxSlip() < 1e-3 && s.t > 0.002) {
+      r.time = s.t;
+      for (int i = 0; i < 500; ++i) step(p, s);
+      r.speed = std::hypot(s.velocity.x(), s.velocity.y());
+      return r;
+    }
+  }
+  return r;
+}
+
+Params sideRollParams(double innerRatio, double mu) {
+  Scenario sc = innerRatio == 0 ? bodyScenario(Shape::Rod, 0.08, 0.03, 0)
+                                : bodyScenario(Shape::Tube, 0.08, 0.03, 0.015 * (1 - innerRatio));
+  sc.surface.frictionStatic = sc.surface.frictionKinetic = mu;
+  return makeParams(sc);
+}
+
+}  // namespace
+
+TEST_CASE("sliding cylinders, hoops and tubes start rolling when and as fast as standard mechanics says", "[dynamics][validation]") {
+  // Standard mechanics (derived from F = -mu m g, torque mu m g R, I = k m R^2):
+  // slip stops at t = v0 / (mu g (1 + 1/k)) with speed v0 / (1 + k).
+  // Solid cylinder k = 1/2: t = v0/(3 mu g), 2 v0/3; thin hoop k = 1:
+  // t = v0/(2 mu g), v0/2 (physics.md section 7, standard mechanics);
+  // thick tube k = (1 + (r/R)^2) / 2. Tolerance 1 % (the issue's target).
+  const double mu = 0.3, v0 = 1.0, g = k::gravity;
+  for (double ratio : {0.0, 0.6, 0.98}) {
+    const double kk = (1 + ratio * ratio) / 2;
+    const Params p = sideRollParams(ratio, mu);
+    const RollOnset r = rollOnset(p, lyingAlongY(p, Vec3(v0, 0, 0), 0), 2.0);
+    INFO("r/R = " << ratio);
+    CHECK(r.time == Approx(v0 / (mu * g * (1 + 1 / kk))).epsilon(0.01));
+    CHECK(r.speed == Approx(v0 / (1 + kk)).epsilon(0.01));
+  }
+}
+
+TEST_CASE("a cylinder set down spinning without speed rolls off at R w0 / 3", "[dynamics][validation]") {
+  // Young & Freedman, University Physics, ch. 10 (rolling with slipping):
+  // a solid cylinder set down with spin w0 and no speed rolls after
+  // t = R w0 / (3 mu g) at speed R w0 / 3. Tolerance 1 %.
+  const double mu = 0.25, w0 = 60.0;
+  const Params p = sideRollParams(0.0, mu);
+  const double R = p.body.outerRadius;
+  const RollOnset r = rollOnset(p, lyingAlongY(p, Vec3::Zero(), w0), 2.0);
+  CHECK(r.time == Approx(R * w0 / (3 * mu * k::gravity)).epsilon(0.01));
+  CHECK(r.speed == Approx(R * w0 / 3).epsilon(0.01));
+}
+
+namespace {
+
+struct Hold {
+  double maxTiltError = 0;  // rad
+  double maxCentreDrift = 0;  // m
+  double maxSlipRatio = 0;  // slip / rim speed
+};
+
+Hold holdSteady(const Params& p, double alpha, double duration) {
+  test::SteadyStart st = test::steadyStart(p, alpha);
+  State s = st.state;
+  const Vec3 c0 = s.position;
+  Hold h;
+  while (s.t < duration) {
+    const ContactReport c = step(p, s);
+    const AxisMotion m = axisMotion(s.orientation, s.spinWorld());
+    h.maxTiltError = std::max(h.maxTiltError, std::abs(m.tilt - alpha));
+    h.maxCentreDrift = std::max(h.maxCentreDrift, std::hypot(s.position.x() - c0.x(), s.position.y() - c0.y()));
+    h.maxSlipRatio = std::max(h.maxSlipRatio, c.maxSlip() / (p.body.outerRadius * s.spinBody.norm()));
+  }
+  return h;
+}
+
+}  // namespace
+
+TEST_CASE("a thin disk started in Moffatt's steady state holds it", "[dynamics][validation]") {
+  // Moffatt, Nature 404, 833 (2000): a thin disk rolling on its rim at angle
+  // theta to the table precesses steadily with W^2 = 4 g / (R sin theta).
+  // The issue's target: tilt within 0.1 deg, centre within 0.5 mm for 2 s,
+  // dissipation off.
+  Scenario sc = bodyScenario(Shape::Disk, 0.0008, 0.040, 0, 7800);
+  const Params p = makeParams(sc);
+  const double theta = 30 * k::degree, alpha = k::pi / 2 - theta;
+  const test::SteadyStart st = test::steadyStart(p, alpha);
+  // Our finite-thickness start agrees with Moffatt's thin-disk limit to
+  // about L/R (2 %).
+  CHECK(st.precession * st.precession == Approx(4 * k::gravity / (p.body.outerRadius * std::sin(theta))).epsilon(0.03));
+  const Hold h = holdSteady(p, alpha, 2.0);
+  CHECK(h.maxTiltError < 0.1 * k::degree);
+  CHECK(h.maxCentreDrift < 0.5e-3);
+}
+
+TEST_CASE("a 4:1 tube started in its steady spin holds it, with no creep", "[dynamics][validation]") {
+  // physics.md section 3 (our derivation): tube D = 16 mm, wall 1 mm,
+  // L = 64 mm. Tilt within 0.1 deg and centre within 0.5 mm for 2 s; in
+  // steady rim rolling the contact slips less than 1e-4 of the rim speed
+  // (the creep bound the README states).
+  Scenario sc = bodyScenario(Shape::Tube, 0.064, 0.016, 0.001, 2700);
+  const Params p = makeParams(sc);
+  for (double tiltDeg : {2.0, 16.0}) {
+    INFO("tilt " << tiltDeg << " deg");
+    const Hold h = holdSteady(p, tiltDeg * k::degree, 2.0);
+    CHECK(h.maxTiltError < 0.1 * k::degree);
+    CHECK(h.maxCentreDrift < 0.5e-3);
+    CHECK(h.maxSlipRatio < 1e-4);
+  }
+}
+
+TEST_CASE("a torque-free body conserves energy and angular momentum, and the intermediate axis is unstable", "[dynamics][validation]") {
+  // Landau & Lifshitz, Mechanics, section 37: free rotation conserves energy
+  // and angular momentum; rotation about the axis of intermediate moment is
+  // unstable, about the largest and smallest stable. Conservation to 1e-6
+  // over 10 s (the issue's target) checks the RK4 rotation integrator.
+  Scenario sc = bodyScenario(Shape::Rod, 0.05, 0.01, 0);
+  Params p = makeParams(sc);
+  p.gravity = 0;
+  p.dragLinear = p.dragTransverse = 0;
+  setInertia(p, Vec3(1e-6, 2e-6, 3e-6));
+  auto spinFor = [&](const Vec3& w0, double duration, Vec3* wEnd, double* energyError, double* momentumError) {
+    State s;
+    s.position = Vec3(0, 0, 1.0);  // far above the table: no contact
+    s.spinBody = w0;
+    auto momentum = [&](const State& st) { return Vec3(st.orientation * p.principal.cwiseProduct(st.spinBody)); };
+    const double e0 = energy(p, s) - p.inertia.mass * 0;  // gravity is off
+    const Vec3 l0 = momentum(s);
+    *energyError = *momentumError = 0;
+    while (s.t < duration) {
+      step(p, s);
+      *energyError = std::max(*energyError, std::abs(energy(p, s) - e0) / e0);
+      *momentumError = std::max(*momentumError, (momentum(s) - l0).norm() / l0.norm());
+    }
+    *wEnd = s.spinBody;
+  };
+  Vec3 w;
+  double de, dl;
+  spinFor(Vec3(3, 1, 2), 10.0, &w, &de, &dl);
+  CHECK(de < 1e-6);
+  CHECK(dl < 1e-6);
+  // Intermediate axis (y): a 1e-3 perturbation grows until the spin flips.
+  double minWy = 1e9;
+  {
+    State s;
+    s.position = Vec3(0, 0, 1.0);
+    s.spinBody = Vec3(1e-3, 10, 1e-3);
+    while (s.t < 10) {
+      step(p, s);
+      minWy = std::min(minWy, s.spinBody.y());
+    }
+  }
+  CHECK(minWy < -5);
+  // Largest (z) and smallest (x) axes: the same perturbation stays small.
+  spinFor(Vec3(1e-3, 1e-3, 10), 10.0, &w, &de, &dl);
+  CHECK(w.z() > 9.99);
+  spinFor(Vec3(10, 1e-3, 1e-3), 10.0, &w, &de, &dl);
+  CHECK(w.x() > 9.99);
+}
+
+TEST_CASE("conservative rolling keeps its energy", "[dynamics][validation]") {
+  // With rolling resistance, pivot friction and drag off, rolling does no
+  // work: total mechanical energy (kinetic, gravity, contact springs) must
+  // drift less than 1e-4 relatively over 10 s (the issue's target).
+  SECTION("a cylinder rolling straight on its side") {
+    const Params p = sideRollParams(0.0, 0.4);
+    const double v = 0.3;
+    State s = lyingAlongY(p, Vec3(v, 0, 0), v / p.body.outerRadius);  // rolling: w_y R = v
+    const double e0 = energy(p, s);
+    double worst = 0;
+    while (s.t < 10) {
+      step(p, s);
+      worst = std::max(worst, std::abs(energy(p, s) - e0) / e0);
+    }
+    CHECK(worst < 1e-4);
+  }
+  SECTION("a tube rolling on its rim, nutating about the steady spin") {
+    Scenario sc = bodyScenario(Shape::Tube, 0.064, 0.016, 0.001, 2700);
+    const Params p = makeParams(sc);
+    test::SteadyStart st = test::steadyStart(p, 12 * k::degree);
+    State s = st.state;
+    s.spinBody *= 1.01;  // off the steady state: it nutates
+    for (int i = 0; i < 2000; ++i) step(p, s);  // let the first contact transient pass
+    const double e0 = energy(p, s);
+    double worst = 0;
+    const double end = s.t + 10;
+    while (s.t < end) {
+      step(p, s);
+      worst = std::max(worst, std::abs(energy(p, s) - e0) / e0);
+    }
+    CHECK(worst < 1e-4);
+  }
+}
+
+TEST_CASE("the pressed end of the demo tube rises and is the one seen", "[dynamics][launch]") {
+  // Common practice, no source: a hand-spun tube rises onto the end that was
+  // not pressed, so the pressed end is the raised one; the issue asks for at
+  // least 9 of 10 seeded launches at 6 to 12 rev/s with back-spin 0.3 to 1.0.
+  const Scenario demo = loadScenario(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json");
+  SplitMix64 rng{20261201};
+  int raisedIsPressed = 0;
+  for (int i = 0; i < 10; ++i) {
+    Scenario s = demo;
+    s.launch.revolution = (6 + 6 * rng.uniform()) * k::twoPi;
+    s.launch.backspin = 0.3 + 0.7 * rng.uniform();
+    s.launch.pressedEnd = rng.uniform() < 0.5 ? End::A : End::B;
+    SimulateOptions o;
+    o.duration = 4.0;  // long enough for slow starters to sustain rim rolling
+    const RunResult r = simulate(s, o);
+    INFO("launch " << i << ": " << s.launch.revolution / k::twoPi << " rev/s, back-spin " << s.launch.backspin);
+    if (r.summary.raisedEnd && *r.summary.raisedEnd == s.launch.pressedEnd) ++raisedIsPressed;
+  }
+  CHECK(raisedIsPressed >= 9);
+}

@@ -1,0 +1,141 @@
+// The scenario file: one field table, validation with named fields, round trips.
+#include <catch2/catch.hpp>
+
+#include "core/colour.hpp"
+#include "core/scenario.hpp"
+
+using namespace dm;
+using nlohmann::json;
+
+namespace {
+
+json demoDoc() { return readScenarioJson(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json"); }
+
+// The field named by the error a broken document raises ("" if none).
+std::string refusedField(const json& doc) {
+  try {
+    scenarioFromJson(doc);
+  } catch (const ScenarioError& e) {
+    return e.field();
+  }
+  return "";
+}
+
+}  // namespace
+
+TEST_CASE("the demo scenario is valid and round-trips through JSON", "[scenario]") {
+  const Scenario s = scenarioFromJson(demoDoc());
+  CHECK(s.body.shape == Shape::Tube);
+  CHECK(s.body.length == Approx(0.131));
+  CHECK(s.paint.markings.size() == 2);
+  const Scenario again = scenarioFromJson(scenarioToJson(s));
+  CHECK(scenarioToJson(again) == scenarioToJson(s));
+}
+
+TEST_CASE("the default scenario is valid", "[scenario]") { CHECK_NOTHROW(validate(defaultScenario())); }
+
+TEST_CASE("broken scenarios are refused naming the field", "[scenario]") {
+  json d = demoDoc();
+  SECTION("missing field") {
+    d["body"].erase("length_mm");
+    CHECK(refusedField(d) == "body.length_mm");
+  }
+  SECTION("negative length") {
+    d["body"]["length_mm"] = -5;
+    CHECK(refusedField(d) == "body.length_mm");
+  }
+  SECTION("wall thicker than the radius") {
+    d["body"]["wall_mm"] = 20;
+    CHECK(refusedField(d) == "body.wall_mm");
+  }
+  SECTION("friction below zero") {
+    d["surface"]["friction_kinetic"] = -0.1;
+    CHECK(refusedField(d) == "surface.friction_kinetic");
+  }
+  SECTION("kinetic friction above static") {
+    d["surface"]["friction_kinetic"] = 0.9;
+    CHECK(refusedField(d) == "surface.friction_kinetic");
+  }
+  SECTION("unknown key, with its path") {
+    d["surface"]["stickiness"] = 1;
+    CHECK(refusedField(d) == "surface.stickiness");
+    json e = demoDoc();
+    e["markings"][1]["glow"] = true;
+    CHECK(refusedField(e) == "markings.1.glow");
+  }
+  SECTION("wrong type") {
+    d["launch"]["revolution_rev_s"] = "fast";
+    CHECK(refusedField(d) == "launch.revolution_rev_s");
+  }
+  SECTION("choice outside its list") {
+    d["launch"]["pressed_end"] = "C";
+    CHECK(refusedField(d) == "launch.pressed_end");
+  }
+  SECTION("bad colour") {
+    d["body"]["colour"] = "red";
+    CHECK(refusedField(d) == "body.colour");
+  }
+  SECTION("a ring longer than wide") {
+    d["body"]["shape"] = "ring";
+    CHECK(refusedField(d) == "body.length_mm");
+  }
+  SECTION("no version, or a newer one") {
+    d.erase("dwellmark_scenario");
+    CHECK(refusedField(d) == "dwellmark_scenario");
+    json e = demoDoc();
+    e["dwellmark_scenario"] = scenarioFormatVersion + 1;
+    CHECK(refusedField(e) == "dwellmark_scenario");
+  }
+  SECTION("neither density nor mass") {
+    d["body"].erase("density_kg_m3");
+    CHECK(refusedField(d) == "body.density_kg_m3");
+  }
+}
+
+TEST_CASE("messages name the value and the allowed range", "[scenario]") {
+  json d = demoDoc();
+  d["launch"]["tilt_deg"] = 120;
+  try {
+    scenarioFromJson(d);
+    FAIL("accepted a tilt of 120 deg");
+  } catch (const ScenarioError& e) {
+    const std::string m = e.what();
+    CHECK(m.find("launch.tilt_deg") != std::string::npos);
+    CHECK(m.find("120") != std::string::npos);
+    CHECK(m.find("0 to 90 deg") != std::string::npos);
+  }
+}
+
+TEST_CASE("set overrides apply by dotted path before validation", "[scenario]") {
+  json d = demoDoc();
+  applyOverride(d, "body.length_mm=140");
+  applyOverride(d, "launch.pressed_end=B");
+  applyOverride(d, "markings.0.colour=#102030");
+  const Scenario s = scenarioFromJson(d);
+  CHECK(s.body.length == Approx(0.140));
+  CHECK(s.launch.pressedEnd == End::B);
+  CHECK(hexFromRgb(s.paint.markings[0].colour) == "#102030");
+  CHECK_THROWS_AS(applyOverride(d, "body.lenght_mm=3"), ScenarioError);
+  CHECK_THROWS_AS(applyOverride(d, "body.length_mm=long"), ScenarioError);
+  CHECK_THROWS_AS(applyOverride(d, "markings.7.colour=#000000"), ScenarioError);
+}
+
+TEST_CASE("every field of the table states a unit, a range and a meaning", "[scenario]") {
+  for (const auto& f : scenarioFields()) {
+    INFO(f.path);
+    CHECK(!f.unit.empty());
+    CHECK(!f.help.empty());
+    if (f.type == FieldType::Number || f.type == FieldType::Integer) CHECK(f.min <= f.max);
+    if (f.type == FieldType::Choice) CHECK(!f.choices.empty());
+  }
+}
+
+TEST_CASE("sRGB transfer matches IEC 61966-2-1", "[scenario][colour]") {
+  // IEC 61966-2-1:1999: linear 0.0031308 <-> encoded 0.04045 at the knee;
+  // encoded 0.5 is linear 0.214041 (from the piecewise formula).
+  CHECK(srgbToLinear(0.04045) == Approx(0.0031308).epsilon(1e-4));
+  CHECK(linearToSrgb(0.0031308) == Approx(0.04045).epsilon(1e-4));
+  CHECK(srgbToLinear(0.5) == Approx(0.214041).epsilon(1e-5));
+  CHECK(srgbToLinear(1.0) == Approx(1.0));
+  for (double v : {0.0, 0.01, 0.2, 0.7, 1.0}) CHECK(linearToSrgb(srgbToLinear(v)) == Approx(v).margin(1e-12));
+}
