@@ -19,6 +19,8 @@ int runCli(int argc, char** argv) {
   Commands commands;
   addSimulateCommand(app, commands);
   addParamsCommand(app, commands);
+  addSteadyCommand(app, commands);
+  addAdviseCommand(app, commands);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -30,6 +30,10 @@ void addParamsCommand(CLI::App& app, Commands& commands);
 
 /// The scenario field table as Markdown (the README's parameter table).
 std::string parameterTableMarkdown();
+/// `steady`: the analytic steady spin at a precession rate or a tilt (app/cmd_steady.cpp).
+void addSteadyCommand(CLI::App& app, Commands& commands);
+/// `advise`: the dimension advisor (app/cmd_advise.cpp).
+void addAdviseCommand(CLI::App& app, Commands& commands);
 
 /// Reads a scenario file, applies `--set key.path=value` overrides, parses
 /// and validates it (throws ScenarioError).
