@@ -106,12 +106,14 @@ void printFrameStats(const GuiState& ui, int width, int height) {
 // canvas, then onto the window. `now` is the wall clock (s); `forcePanels`
 // draws the panels whatever changed.
 void frame(GuiContext& c, GLFWwindow* window, Canvas& canvas, double wallSeconds, double now, bool forcePanels) {
+  c.session.setKeepSeconds(std::max(c.ui.overlays.trailSeconds, c.session.scenario().observer.exposure) + 0.5);
   const auto stepStart = Clock::now();
   const AdvanceReport adv = c.session.advance(wallSeconds, stepBudget);
   c.ui.times.stepMs = msSince(stepStart);
   c.ui.times.steps = adv.steps;
   c.ui.times.behind = adv.behind;
   c.session.poll();
+  c.session.refreshObserver();
 
   ImGui_ImplOpenGL3_NewFrame();
   ImGui_ImplGlfw_NewFrame();
@@ -124,6 +126,7 @@ void frame(GuiContext& c, GLFWwindow* window, Canvas& canvas, double wallSeconds
   drawDesignPanel(c);
   drawPlaybackBar(c);
   drawTimelines(c);
+  drawObserverPanel(c);
   drawReadings(c);
   drawMetricsWindow(c);
   drawHelpWindow(c);
@@ -219,7 +222,10 @@ int runGui(const app::GuiOptions& options) {
         const bool lastFrame = scripted && n + 1 >= options.frames;
         // Before the last scripted frame, let the background work finish so
         // the picture shows its results.
-        if (lastFrame) session.waitForForecast();
+        if (lastFrame) {
+          session.waitForForecast();
+          session.waitForObserver();
+        }
         // Scripted runs use a fixed clock, so the same frames show the same instants.
         const double wall = scripted ? scriptedFrameSeconds : std::chrono::duration<double>(start - last).count();
         const double now = scripted ? double(n) * scriptedFrameSeconds : std::chrono::duration<double>(start - began).count();
@@ -240,6 +246,7 @@ int runGui(const app::GuiOptions& options) {
         writeFrameLog(ui, options.frameLogPath);
         printFrameStats(ui, options.width, options.height);
       }
+      glDeleteTextures(1, &ui.observerTexture);
     } catch (const std::exception& e) {
       std::cerr << "dwellmark: GUI error: " << e.what() << "\n";
       code = app::exitFailure;

@@ -90,6 +90,9 @@ struct GuiState {
   bool quit = false;           ///< leave the main loop
   bool viewDragging = false;   ///< a mouse drag that began in the 3D view is going on
   std::uint64_t builtLook = ~0ull;  ///< session look revision uploaded to the renderer
+  unsigned observerTexture = 0;     ///< GL texture of the observer picture (0 = none yet)
+  double uploadedShotEnd = -1;      ///< end time of the picture in that texture, s
+  int uploadedShotSize = 0;         ///< its side, px
 };
 
 /// What the panels work with.
@@ -126,6 +129,8 @@ ViewScene currentScene(GuiContext& c);
 /// Renders the 3D view offscreen at the export size and writes a PNG.
 void exportViewPicture(GuiContext& c, const std::string& path);
 void exportTrajectoryCsv(GuiContext& c, const std::string& path);
+/// Starts an observer exposure at the export size that writes a PNG when done.
+void exportObserverPicture(GuiContext& c, const std::string& path);
 void applyOutcome(GuiContext& c, const std::string& path, const EditOutcome& out);
 
 /// The keyboard shortcut table (shown by the help window).

@@ -103,6 +103,7 @@ bool finishChooser(GuiContext& c, const std::string& path) {
         if (c.ui.deferred != Deferred::None) runDeferred(c);
         return true;
       case FileTask::ExportView: exportViewPicture(c, path); return true;
+      case FileTask::ExportObserver: exportObserverPicture(c, path); return true;
       case FileTask::ExportCsv: exportTrajectoryCsv(c, path); return true;
     }
   } catch (const std::exception& e) {
@@ -289,6 +290,7 @@ void drawMenuBar(GuiContext& c) {
     if (ImGui::MenuItem("Save as...", "Ctrl+Shift+S")) openChooser(c, FileTask::SaveAs);
     ImGui::Separator();
     if (ImGui::MenuItem("Export 3D view picture...", "Ctrl+E")) openChooser(c, FileTask::ExportView);
+    if (ImGui::MenuItem("Export visitor's view picture...")) openChooser(c, FileTask::ExportObserver);
     if (ImGui::MenuItem("Export trajectory CSV...", nullptr, false, s.forecast() != nullptr))
       openChooser(c, FileTask::ExportCsv);
     ImGui::Separator();

@@ -9,6 +9,8 @@
 #include "core/flick.hpp"
 #include "core/io.hpp"
 #include "core/launch.hpp"
+#include "render/flicker.hpp"
+#include "render/scene.hpp"
 
 namespace dm::gui {
 
@@ -213,6 +215,8 @@ void Session::restart() {
   live_.recent.push_back(sampleOf(live_.params, live_.state, contacts(live_.params, live_.state)));
   provisionalNow_ = true;
   targetTime_ = 0;
+  lastShotRequest_ = -1e9;
+  shot_.reset();  // a picture of the previous run would mislead
   ++motionRevision_;
   startForecast();
 }
@@ -312,6 +316,11 @@ void Session::startForecast() {
 void Session::poll() {
   if (auto f = forecastWorker_.take(); f && f->motionRevision == motionRevision_) forecast_ = std::move(*f);
   if (auto e = forecastWorker_.takeError()) warn("forecast failed: " + *e);
+  if (auto shot = observerWorker_.take()) {
+    if (!shot->savedTo.empty()) warn("wrote " + shot->savedTo);
+    shot_ = std::move(*shot);
+  }
+  if (auto e = observerWorker_.takeError()) warn("observer camera failed: " + *e);
 }
 
 const Forecast* Session::forecast() const { return forecast_ ? &*forecast_ : nullptr; }
@@ -326,6 +335,65 @@ const PatternWindow* Session::patternAt(double t) const {
 
 void Session::waitForForecast() {
   forecastWorker_.wait();
+  poll();
+}
+
+// ---- observer camera ---------------------------------------------------------
+
+std::pair<double, double> Session::observerWindow() const {
+  const double end = live_.now().t;
+  const ObserverSpec& o = scenario_.observer;
+  // A camera exposes what has happened so far; the eye needs its whole window.
+  const double start = o.mode == ExposureMode::Camera ? std::max(0.0, end - o.exposure) : end - o.exposure;
+  return {start, end};
+}
+
+bool Session::requestObserverShot(int size, const std::string& exportPath) {
+  const auto [start, end] = observerWindow();
+  if (!(start >= 0 && end > start) || start < live_.recent.front().t) {
+    if (!exportPath.empty()) warn("the run has not yet moved for observer.exposure_s; no picture written");
+    return false;
+  }
+  // The dense samples covering the window, copied for the worker.
+  Trajectory window;
+  for (const Sample& smp : live_.recent)
+    if (smp.t >= start - 2 * live_.params.timeStep && smp.t <= end) window.samples.push_back(smp);
+  Scenario s = scenario_;
+  s.observer.imageSize = size;
+  const Vec3 centre(live_.now().position.x(), live_.now().position.y(), 0);
+  observerWorker_.submit([s, window, centre, start, end, exportPath](JobControl&) {
+    ExposureOptions options;
+    options.timing.mode = s.observer.mode;
+    options.timing.start = start;
+    options.timing.duration = end - start;
+    options.timing.flicker = flickerOf(s.lighting);
+    options.threads = 1;  // the other core keeps the window responsive; the picture is the same
+    options.seed = s.launch.seed;
+    ObserverShot shot;
+    shot.camera = cameraOf(s.observer, centre);
+    const Exposure e = expose(sceneOf(s), shot.camera, poseSourceOf(window), options);
+    shot.image = e.image;
+    shot.stats = e.stats;
+    shot.start = start;
+    shot.end = end;
+    if (!exportPath.empty()) {
+      writePng(exportPath, shot.image);
+      shot.savedTo = exportPath;
+    }
+    return shot;
+  });
+  return true;
+}
+
+void Session::refreshObserver() {
+  if (observerWorker_.busy()) return;
+  const double now = live_.now().t;
+  if (shot_ && now - lastShotRequest_ < observerRefresh && now >= lastShotRequest_) return;
+  if (requestObserverShot(liveObserverSize)) lastShotRequest_ = now;
+}
+
+void Session::waitForObserver() {
+  observerWorker_.wait();
   poll();
 }
 

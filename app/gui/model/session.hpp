@@ -18,6 +18,8 @@
 #include "core/pattern.hpp"
 #include "core/scenario.hpp"
 #include "core/simulate.hpp"
+#include "render/camera.hpp"
+#include "render/expose.hpp"
 
 namespace dm::gui {
 
@@ -66,6 +68,20 @@ struct Forecast {
   PatternAnalysis pattern;
   bool truncated = false;  ///< covers only the first maxForecastSteps steps
 };
+
+/// One exposure of the observer camera over the latest stretch of the run.
+struct ObserverShot {
+  Image image;          ///< what the observer perceives, linear light
+  Camera camera;        ///< the camera it was taken with (maps lab points to pixels)
+  double start = 0, end = 0;  ///< s, the exposed window of simulated time
+  ExposureStats stats;
+  std::string savedTo;  ///< file written for an export ("" for the live panel)
+};
+
+/// Side of the live observer picture, px (the panel shows it about this size).
+inline constexpr int liveObserverSize = 256;
+/// Simulated time between live observer refreshes, s.
+inline constexpr double observerRefresh = 0.25;
 
 /// What one advance() did.
 struct AdvanceReport {
@@ -148,6 +164,23 @@ class Session {
   double forecastProgress() const { return forecastWorker_.progress(); }
   /// Blocks until the forecast is done (scripted runs and tests).
   void waitForForecast();
+  // ---- observer camera (worker thread) -------------------------------------
+  /// Starts an exposure of the last observer.exposure_s of the run at
+  /// `size` px (square); with `exportPath`, the picture is also written
+  /// there as PNG. False (with a warning) when the run has too little history.
+  bool requestObserverShot(int size, const std::string& exportPath = {});
+  /// Starts a live refresh when none is running and the run has moved on by
+  /// observerRefresh since the last picture; call once a frame.
+  void refreshObserver();
+  /// The latest finished picture, if any.
+  const ObserverShot* observerShot() const { return shot_ ? &*shot_ : nullptr; }
+  bool observerBusy() const { return observerWorker_.busy(); }
+  /// Blocks until the observer camera is done (scripted runs and tests).
+  void waitForObserver();
+  /// The window of simulated time an exposure ending now would cover, s
+  /// (start > end when there is not yet enough motion).
+  std::pair<double, double> observerWindow() const;
+
   /// Messages the session wants shown (refused edits, faults, job errors), oldest first.
   const std::vector<std::string>& warnings() const { return warnings_; }
   void clearWarnings() { warnings_.clear(); }
@@ -178,7 +211,10 @@ class Session {
   std::uint64_t revision_ = 0, motionRevision_ = 0, lookRevision_ = 0, flicks_ = 0;
   std::optional<Forecast> forecast_;
   std::vector<std::string> warnings_;
-  Worker<Forecast> forecastWorker_;  // last: stops before the members its task reads
+  std::optional<ObserverShot> shot_;
+  double lastShotRequest_ = -1e9;  ///< simulated time of the last live request, s
+  Worker<Forecast> forecastWorker_;  // workers last: they stop before the members above go
+  Worker<ObserverShot> observerWorker_;
 };
 
 /// True when a change of this field path changes the motion (and so restarts the run).
