@@ -84,6 +84,8 @@ struct GuiState {
   std::vector<SurfacePreset> presets;
   std::string presetError;
   int exportWidth = 1920, exportHeight = 1200;  ///< px, picture exports
+  int adviceSpots = 4;                          ///< spots the advisor designs for (2..20)
+  float adviceFromRevS = 6, adviceToRevS = 12;  ///< precession range a visitor reaches, rev/s
   std::string status;          ///< last message of the status line
   FrameTimes times;
   std::vector<FrameLogRow> frameLog;

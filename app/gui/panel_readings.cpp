@@ -3,6 +3,7 @@
 // time, time left before it stops). Every number comes from a core result.
 #include <imgui.h>
 
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 #include <string>
@@ -11,6 +12,7 @@
 #include "core/constants.hpp"
 #include "core/io.hpp"
 #include "core/kinematics.hpp"
+#include "core/steady.hpp"
 
 namespace dm::gui {
 
@@ -58,6 +60,57 @@ void forecastRows(const Session& s, double t) {
   row("stops in window", std::to_string(w->stopCount) + (w->revsPerVisit > 0 ? ", each spot every " + std::to_string(w->revsPerVisit) + " rev" : ""));
 }
 
+// The solver's steady spin of this geometry at the precession now (or, before
+// the body precesses, at the launch's vertical spin).
+void steadyRows(const Session& s, const AxisMotion& m) {
+  const Cylinder cyl = cylinderOf(s.scenario().body);
+  const double precession = m.precessing ? std::abs(m.precession) : s.scenario().launch.revolution;
+  row("at precession", fixed(precession / k::twoPi, 3) + " rev/s" + (m.precessing ? "" : " (launch spin)"));
+  const SteadySolution sol = steadyAtPrecession(cyl, precession);
+  row("end stays up above", fixed(sol.minPrecession / k::twoPi, 3) + " rev/s");
+  const auto pattern = std::find_if(sol.branches.begin(), sol.branches.end(), [](const SteadySpin& b) { return b.pattern; });
+  if (pattern == sol.branches.end()) {
+    row("pattern state", sol.reason.empty() ? "none" : sol.reason);
+    return;
+  }
+  row("steady tilt", fixed(pattern->tilt / k::degree, 2) + " deg");
+  row("steady N", fixed(pattern->spotsPerRev, 4) + " (nearest " + std::to_string(pattern->nearestSpots) + ")");
+  if (pattern->nearestSpots > 0)
+    row("steady drift", fixed(pattern->driftDegPerRev, 2) + " deg/rev, " + fixed(pattern->driftDegPerSecond, 1) + " deg/s");
+  row("ceiling height", fixed(pattern->ceilingHeight * 1e3, 2) + " mm");
+  row("contact circle radius", fixed(pattern->contactRadius * 1e3, 2) + " mm");
+}
+
+void adviceRows(const LengthAdvice& a, const char* label) {
+  if (!a.found) {
+    row(label, a.reason);
+    return;
+  }
+  row(label, std::to_string(a.spots) + " spots: length " + fixed(a.length * 1e3, 1) + " mm, worst drift " +
+                 fixed(a.worst.driftDegPerSecond, 1) + " deg/s");
+}
+
+void advisorSection(GuiContext& c) {
+  GuiState& ui = c.ui;
+  ImGui::SetNextItemWidth(90);
+  ImGui::InputInt("spots", &ui.adviceSpots);
+  ui.adviceSpots = std::clamp(ui.adviceSpots, 2, 20);
+  ImGui::SetNextItemWidth(150);
+  ImGui::DragFloatRange2("rev/s", &ui.adviceFromRevS, &ui.adviceToRevS, 0.05f, 0.0f, 100.0f, "%.2f");
+  if (ImGui::Button("Advise a length")) c.session.requestAdvice(ui.adviceSpots, ui.adviceFromRevS * k::twoPi, ui.adviceToRevS * k::twoPi);
+  if (c.session.adviceBusy()) {
+    ImGui::SameLine();
+    ImGui::TextDisabled("working ...");
+  }
+  const DimensionAdvice* a = c.session.advice();
+  if (!a || !ImGui::BeginTable("advice", 2, ImGuiTableFlags_RowBg | ImGuiTableFlags_SizingStretchProp)) return;
+  row("range", fixed(a->from / k::twoPi, 2) + " to " + fixed(a->to / k::twoPi, 2) + " rev/s");
+  adviceRows(a->fewer, "one fewer");
+  adviceRows(a->best, "asked");
+  adviceRows(a->more, "one more");
+  ImGui::EndTable();
+}
+
 }  // namespace
 
 void drawReadings(GuiContext& c) {
@@ -77,6 +130,12 @@ void drawReadings(GuiContext& c) {
     forecastRows(s, now.t);
     ImGui::EndTable();
   }
+  if (ImGui::CollapsingHeader("Steady spin", ImGuiTreeNodeFlags_DefaultOpen) &&
+      ImGui::BeginTable("steady", 2, ImGuiTableFlags_RowBg | ImGuiTableFlags_SizingStretchProp)) {
+    steadyRows(s, m);
+    ImGui::EndTable();
+  }
+  if (ImGui::CollapsingHeader("Length advisor")) advisorSection(c);
   ImGui::End();
 }
 

@@ -321,6 +321,8 @@ void Session::poll() {
     shot_ = std::move(*shot);
   }
   if (auto e = observerWorker_.takeError()) warn("observer camera failed: " + *e);
+  if (auto a = adviceWorker_.take()) advice_ = std::move(*a);
+  if (auto e = adviceWorker_.takeError()) warn("advisor: " + *e);
 }
 
 const Forecast* Session::forecast() const { return forecast_ ? &*forecast_ : nullptr; }
@@ -395,6 +397,11 @@ void Session::refreshObserver() {
 void Session::waitForObserver() {
   observerWorker_.wait();
   poll();
+}
+
+void Session::requestAdvice(int spots, double from, double to) {
+  const Cylinder section = cylinderOf(scenario_.body);
+  adviceWorker_.submit([section, spots, from, to](JobControl&) { return adviseLength(section, spots, from, to); });
 }
 
 void Session::warn(std::string message) {

@@ -15,6 +15,7 @@
 #include "app/gui/model/worker.hpp"
 #include "core/dynamics.hpp"
 #include "core/kinematics.hpp"
+#include "core/advise.hpp"
 #include "core/pattern.hpp"
 #include "core/scenario.hpp"
 #include "core/simulate.hpp"
@@ -181,6 +182,14 @@ class Session {
   /// (start > end when there is not yet enough motion).
   std::pair<double, double> observerWindow() const;
 
+  // ---- dimension advisor (worker thread) ----------------------------------
+  /// Starts the advisor for `spots` over precessions [from, to] rad/s on the
+  /// current cross-section (core adviseLength; refused arguments become a warning).
+  void requestAdvice(int spots, double from, double to);
+  /// The latest finished advice, if any.
+  const DimensionAdvice* advice() const { return advice_ ? &*advice_ : nullptr; }
+  bool adviceBusy() const { return adviceWorker_.busy(); }
+
   /// Messages the session wants shown (refused edits, faults, job errors), oldest first.
   const std::vector<std::string>& warnings() const { return warnings_; }
   void clearWarnings() { warnings_.clear(); }
@@ -212,9 +221,11 @@ class Session {
   std::optional<Forecast> forecast_;
   std::vector<std::string> warnings_;
   std::optional<ObserverShot> shot_;
+  std::optional<DimensionAdvice> advice_;
   double lastShotRequest_ = -1e9;  ///< simulated time of the last live request, s
   Worker<Forecast> forecastWorker_;  // workers last: they stop before the members above go
   Worker<ObserverShot> observerWorker_;
+  Worker<DimensionAdvice> adviceWorker_;
 };
 
 /// True when a change of this field path changes the motion (and so restarts the run).
