@@ -144,6 +144,10 @@ struct Shortcut {
 };
 const std::vector<Shortcut>& shortcuts();
 
+/// Begins one of the tiled panels at its layout rectangle (fixed, not
+/// movable or resizable); pair with ImGui::End().
+void beginFixedPanel(const char* title, const Rect& r, int extraFlags = 0);
+
 /// Colours and spacing of our theme.
 void applyTheme();
 

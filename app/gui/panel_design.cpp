@@ -212,9 +212,7 @@ void applyOutcome(GuiContext& c, const std::string& path, const EditOutcome& out
 
 void drawDesignPanel(GuiContext& c) {
   const Rect& r = c.layout.design;
-  ImGui::SetNextWindowPos(ImVec2(r.x, r.y));
-  ImGui::SetNextWindowSize(ImVec2(r.w, r.h));
-  ImGui::Begin("Design", nullptr, ImGuiWindowFlags_NoMove | ImGuiWindowFlags_NoResize | ImGuiWindowFlags_NoCollapse);
+  beginFixedPanel("Design", r);
   if (ImGui::CollapsingHeader("Scenario")) {
     for (const char* path : {"name", "description"}) fieldRow(c, *findField(path), c.session.scenario(), path);
   }

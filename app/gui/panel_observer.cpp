@@ -67,9 +67,7 @@ void exportObserverPicture(GuiContext& c, const std::string& path) {
 
 void drawObserverPanel(GuiContext& c) {
   const Rect& r = c.layout.observer;
-  ImGui::SetNextWindowPos(ImVec2(r.x, r.y));
-  ImGui::SetNextWindowSize(ImVec2(r.w, r.h));
-  ImGui::Begin("Visitor's view", nullptr, ImGuiWindowFlags_NoMove | ImGuiWindowFlags_NoResize | ImGuiWindowFlags_NoCollapse);
+  beginFixedPanel("Visitor's view", r);
   const Session& s = c.session;
   const ObserverSpec& o = s.scenario().observer;
   const ObserverShot* shot = s.observerShot();
@@ -93,7 +91,7 @@ void drawObserverPanel(GuiContext& c) {
     }
   } else {
     const auto [start, end] = s.observerWindow();
-    ImGui::Dummy(ImVec2(side, side * 0.4f));
+    ImGui::InvisibleButton("##waiting", ImVec2(side, side * 0.4f));
     if (start < 0) ImGui::TextWrapped("collecting motion: %s of %s s", fmt(end, 3).c_str(), fmt(o.exposure, 3).c_str());
     else ImGui::TextWrapped("exposing the first picture ...");
   }

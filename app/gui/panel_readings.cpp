@@ -115,9 +115,7 @@ void advisorSection(GuiContext& c) {
 
 void drawReadings(GuiContext& c) {
   const Rect& r = c.layout.readings;
-  ImGui::SetNextWindowPos(ImVec2(r.x, r.y));
-  ImGui::SetNextWindowSize(ImVec2(r.w, r.h));
-  ImGui::Begin("Readings", nullptr, ImGuiWindowFlags_NoMove | ImGuiWindowFlags_NoResize | ImGuiWindowFlags_NoCollapse);
+  beginFixedPanel("Readings", r);
   const Session& s = c.session;
   const Sample& now = s.live().now();
   const AxisMotion m = axisMotion(now.orientation, now.spin);

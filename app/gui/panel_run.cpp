@@ -16,13 +16,6 @@ namespace dm::gui {
 
 namespace {
 
-constexpr ImGuiWindowFlags fixedPanel = ImGuiWindowFlags_NoMove | ImGuiWindowFlags_NoResize |
-                                        ImGuiWindowFlags_NoCollapse;
-
-void placeWindow(const Rect& r) {
-  ImGui::SetNextWindowPos(ImVec2(r.x, r.y));
-  ImGui::SetNextWindowSize(ImVec2(r.w, r.h));
-}
 
 // Our plot colours, one per series (sRGB).
 constexpr ImU32 seriesColours[] = {IM_COL32(240, 174, 66, 255), IM_COL32(88, 196, 178, 255),
@@ -70,7 +63,7 @@ void plot(const Series& s, const std::vector<double>& time, double from, double 
     draw->AddText(ImVec2(p1.x - rangeSize.x - 6, p1.y - rangeSize.y - 3), IM_COL32(140, 150, 150, 255), range.c_str());
   }
   draw->AddText(ImVec2(p0.x + 6, p0.y + 3), colour, head.c_str());
-  ImGui::Dummy(size);
+  ImGui::InvisibleButton(s.title, size);  // reserves the plot's area in the layout
 }
 
 std::string secondsText(double s) { return fmt(s, s < 10 ? 3 : 4) + " s"; }
@@ -78,8 +71,7 @@ std::string secondsText(double s) { return fmt(s, s < 10 ? 3 : 4) + " s"; }
 }  // namespace
 
 void drawPlaybackBar(GuiContext& c) {
-  placeWindow(c.layout.playback);
-  ImGui::Begin("Playback", nullptr, fixedPanel | ImGuiWindowFlags_NoTitleBar | ImGuiWindowFlags_NoScrollbar);
+  beginFixedPanel("Playback", c.layout.playback, ImGuiWindowFlags_NoTitleBar | ImGuiWindowFlags_NoScrollbar);
   Session& s = c.session;
   const LiveRun& live = s.live();
   // Row 1: transport, speed, clock.
@@ -129,8 +121,7 @@ void drawPlaybackBar(GuiContext& c) {
 }
 
 void drawTimelines(GuiContext& c) {
-  placeWindow(c.layout.timelines);
-  ImGui::Begin("Timelines", nullptr, fixedPanel | ImGuiWindowFlags_NoScrollbar);
+  beginFixedPanel("Timelines", c.layout.timelines, ImGuiWindowFlags_NoScrollbar);
   const Timeline& tl = c.session.live().timeline;
   const Series series[] = {{"tilt", "deg", &tl.tilt_deg},
                            {"precession", "rev/s", &tl.precession_rev_s},
@@ -307,6 +298,12 @@ void handleViewMouse(GuiContext& c) {
     cam.target.x = float(p.x());
     cam.target.y = float(p.y());
   }
+}
+
+void beginFixedPanel(const char* title, const Rect& r, int extraFlags) {
+  ImGui::SetNextWindowPos(ImVec2(r.x, r.y));
+  ImGui::SetNextWindowSize(ImVec2(r.w, r.h));
+  ImGui::Begin(title, nullptr, ImGuiWindowFlags_NoMove | ImGuiWindowFlags_NoResize | ImGuiWindowFlags_NoCollapse | extraFlags);
 }
 
 void applyTheme() {
