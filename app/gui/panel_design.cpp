@@ -21,7 +21,8 @@ struct Section {
 };
 constexpr Section sections[] = {
     {"body.", "Body"},          {"surface.", "Table surface"}, {"launch.", "Launch"},
-    {"observer.", "Observer"},  {"lighting.", "Lighting"},     {"run.", "Run and numerics"},
+    {"observer.", "Observer"},  {"lighting.", "Lighting"},     {"analysis.", "Pattern analysis"},
+    {"run.", "Run and numerics"},
     {"contact.", "Run and numerics"},
 };
 
@@ -191,6 +192,23 @@ void surfacePresets(GuiContext& c) {
     ImGui::TextColored(ImVec4(1.0f, 0.45f, 0.35f, 1.0f), "%s", it->second.c_str());
 }
 
+void tracePointsSection(GuiContext& c) {
+  const auto& points = c.session.scenario().analysis.tracePoints;
+  std::optional<std::size_t> remove;
+  for (std::size_t i = 0; i < points.size(); ++i) {
+    ImGui::PushID(int(i) + 1000);
+    if (ImGui::TreeNode("##point", "trace point %zu on end %s", i + 1, std::string(endName(points[i].end)).c_str())) {
+      for (const Field<TracePointSpec>& f : tracePointFields())
+        fieldRow(c, f, points[i], "analysis.trace_points." + std::to_string(i) + "." + f.path);
+      if (ImGui::Button("Remove this point")) remove = i;
+      ImGui::TreePop();
+    }
+    ImGui::PopID();
+  }
+  if (remove) applyOutcome(c, "analysis.trace_points", c.session.removeTracePoint(*remove));
+  if (ImGui::Button("Add a trace point")) applyOutcome(c, "analysis.trace_points", c.session.addTracePoint());
+}
+
 void flickButton(GuiContext& c) {
   if (ImGui::Button("Visitor flick")) applyOutcome(c, "launch", c.session.flick());
   if (ImGui::IsItemHovered())
@@ -228,6 +246,7 @@ void drawDesignPanel(GuiContext& c) {
       for (const Section& same : sections)
         if (std::string(same.title) == s.title) scalarSection(c, same.prefix);
       if (prefix == "launch.") flickButton(c);
+      if (prefix == "analysis.") tracePointsSection(c);
     }
     if (prefix == "body." && ImGui::CollapsingHeader("Markings", ImGuiTreeNodeFlags_DefaultOpen)) markingsSection(c);
   }
