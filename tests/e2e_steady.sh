@@ -48,12 +48,13 @@ EOF
 # --- JSON by tilt, and a scenario with a flag overriding it.
 "$bin" steady "$src/assets/scenarios/demo.json" --length-mm 64 --tilt-deg 10 --json >"$tmp/t10.json" ||
   fail "steady scenario --tilt-deg exited $?"
-python3 - "$tmp/t10.json" <<'EOF' || fail "steady by tilt content"
+python3 - "$tmp/t10.json" "$src/assets/scenarios/demo.json" <<'EOF' || fail "steady by tilt content"
 import json, sys
 j = json.load(open(sys.argv[1]))
+demo = json.load(open(sys.argv[2]))
 assert j["solution"] == "pattern"
 assert j["tilt_deg"] == 10
-assert j["body"]["length_mm"] == 64 and j["body"]["outer_diameter_mm"] == 32, j["body"]
+assert j["body"]["length_mm"] == 64 and j["body"]["outer_diameter_mm"] == demo["body"]["outer_diameter_mm"], j["body"]
 assert j["precession_rev_s"] > j["min_precession_rev_s"]
 EOF
 "$bin" steady --tilt-deg 50 "${tube[@]}" --json | grep -q '"solution": "none"' || fail "tilt in the gap is not none"
