@@ -50,9 +50,13 @@ struct SpotReport {
 };
 
 /// Finds the spots along `ring` in an image seen through `camera`. The ring
-/// is sampled at least twice per pixel of its length, each sample averaging
-/// three points across the ring a pixel apart; a spot is a run of samples,
-/// at least a pixel long, all beyond the threshold with one sign.
+/// is cut into bins a pixel of its length long (at least 720), each the mean
+/// of the image over two pixels either side of the ring; the contrast is
+/// smoothed over five bins and freed of its first harmonic (the near and far
+/// halves of a ring seen obliquely differ in shading); the reference is the
+/// median, taken again without the strong spots and their skirts; a spot is
+/// a run of bins, at least two pixels long, all beyond the threshold with
+/// one sign.
 SpotReport findSpots(const Image& image, const Camera& camera, const Ring& ring, double threshold);
 
 }  // namespace dm
