@@ -192,7 +192,7 @@ namespace {
 // Fraction of [x - w/2, x + w/2] covered by lines of width `line` centred
 // on the multiples of `spacing` (a box filter over the pixel's footprint).
 double lineCoverage(double x, double w, double spacing, double line) {
-  // Covered length of [-inf... , x] measured from a line's left edge, per period.
+  // Covered length of the lines up to v, counted from a fixed origin (differences are what matter).
   auto cumulative = [&](double v) {
     const double shifted = v + line / 2;
     const double periods = std::floor(shifted / spacing);
