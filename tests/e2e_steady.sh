@@ -53,7 +53,7 @@ import json, sys
 j = json.load(open(sys.argv[1]))
 assert j["solution"] == "pattern"
 assert j["tilt_deg"] == 10
-assert j["body"]["length_mm"] == 64 and j["body"]["outer_diameter_mm"] == 15, j["body"]
+assert j["body"]["length_mm"] == 64 and j["body"]["outer_diameter_mm"] == 32, j["body"]
 assert j["precession_rev_s"] > j["min_precession_rev_s"]
 EOF
 "$bin" steady --tilt-deg 50 "${tube[@]}" --json | grep -q '"solution": "none"' || fail "tilt in the gap is not none"
@@ -106,8 +106,8 @@ bad "--sweep-precession-rev-s: expected FROM:TO:STEP in rev/s, got \"6-10\"" "${
 bad "--sweep-precession-rev-s: FROM -2 is out of range; allowed 0 to 100 rev/s" "${tube[@]}" --sweep-precession-rev-s=-2:6:1
 # geometry that is not a cylinder, through the scenario's field table
 bad "--wall-mm (body.wall_mm): value 9 must be less than the outer radius 8 mm" --length-mm 64 --outer-diameter-mm 16 --wall-mm 9 --precession-rev-s 8
-bad "--length-mm (body.length_mm): value -5.0 is out of range; allowed 0.2 to 1000 mm" --length-mm=-5 --precession-rev-s 8
-bad "--outer-diameter-mm (body.outer_diameter_mm): value 0.0 is out of range; allowed 1 to 500 mm" --outer-diameter-mm 0 --precession-rev-s 8
+bad "--length-mm (body.length_mm): value -5 is out of range; allowed 0.2 to 1000 mm" --length-mm=-5 --precession-rev-s 8
+bad "--outer-diameter-mm (body.outer_diameter_mm): value 0 is out of range; allowed 1 to 500 mm" --outer-diameter-mm 0 --precession-rev-s 8
 bad "is longer than its diameter" --length-mm 10 --outer-diameter-mm 16 --precession-rev-s 8
 bad "give --precession-rev-s, --tilt-deg or --sweep-precession-rev-s" "${tube[@]}"
 bad "excludes" "${tube[@]}" --precession-rev-s 8 --tilt-deg 10
