@@ -68,7 +68,7 @@ enum class Waveform { None, Sine, RectifiedMains };
 
 struct ObserverSpec {
   ViewKind view = ViewKind::Top;
-  ExposureMode mode = ExposureMode::Eye;
+  ExposureMode mode = ExposureMode::Camera;
   double start = 4.0;             ///< exposure start time, s
   double exposure = 0.5;          ///< box-shutter exposure / eye integration window, s
   double eyeHeight = 1.5;         ///< visitor eye above the table top, m
