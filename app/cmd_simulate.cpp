@@ -1,4 +1,6 @@
-// dwellmark simulate: one headless run, writing trajectory.csv and summary.json.
+// dwellmark simulate: one headless run, writing trajectory.csv, traces.csv,
+// stops.csv and summary.json (with the spot pattern per time window).
+#include <algorithm>
 #include <iostream>
 
 #include "app/cli.hpp"
@@ -38,19 +40,28 @@ int finishSimulation(const Scenario& s, const RunResult& r, const std::string& o
     err << "dwellmark: " << faultReport(*r.fault) << "\n  nothing was written.\n";
     return exitFault;
   }
-  writeOutputs(outDir, simulationFiles(s, r));
+  const PatternAnalysis pattern = analysePattern(s, r);
+  const std::vector<OutputFile> files = simulationFiles(s, r, pattern);
+  writeOutputs(outDir, files);
   const std::string dir = outDir + "/";
   out << "simulated " << r.summary.endTime << " s of \"" << s.name << "\"\n";
   out << "  settle time: " << (r.summary.settleTime ? fmt(*r.summary.settleTime, 4) + " s" : "never settled")
       << ", raised end: " << (r.summary.raisedEnd ? std::string(endName(*r.summary.raisedEnd)) : "none")
       << ", rest time: " << (r.summary.restTime ? fmt(*r.summary.restTime, 4) + " s" : "still moving") << "\n";
-  out << "wrote " << dir << "trajectory.csv\nwrote " << dir << "summary.json\n";
+  // The last window with an end raised: the pattern a visitor saw last.
+  const auto seen = std::find_if(pattern.windows.rbegin(), pattern.windows.rend(),
+                                 [](const PatternWindow& w) { return w.visibleEnd.has_value(); });
+  if (seen != pattern.windows.rend())
+    out << "  last pattern " << patternSentence(*seen) << "\n";
+  else
+    out << "  no end raised in any pattern window\n";
+  for (const OutputFile& f : files) out << "wrote " << dir << f.name << "\n";
   return exitOk;
 }
 
 void addSimulateCommand(CLI::App& app, Commands& commands) {
   auto args = std::make_shared<SimulateArgs>();
-  CLI::App* sub = app.add_subcommand("simulate", "Run the physics headless; write trajectory.csv and summary.json");
+  CLI::App* sub = app.add_subcommand("simulate", "Run the physics headless; write trajectory.csv, traces.csv, stops.csv and summary.json");
   sub->add_option("scenario", args->scenario, "scenario JSON file")->required();
   sub->add_option("--out", args->out, "output folder (new or empty)")->required();
   sub->add_option("--set", args->sets, "override a scenario field: key.path=value (repeatable)");

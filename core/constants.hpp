@@ -48,4 +48,9 @@ inline constexpr double maxStaticDeflection = 0.01;
 /// Sustained rolling must last this long (s) to count as settled.
 inline constexpr double settleHold = 0.5;
 
+/// Shortest eye-mode integration window, s: the eye's temporal impulse
+/// response (Watson 1986, render/temporal.hpp) has delivered all
+/// its area by then (all but 5e-5), so the window's weights sum to one.
+inline constexpr double minEyeWindow = 0.2;
+
 }  // namespace dm::k

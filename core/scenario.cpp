@@ -58,6 +58,21 @@ Field<T> number(std::string path, std::string unit, double min, double max, doub
   return f;
 }
 
+// A whole number stored at `ref`, in the same unit in files and in memory.
+template <class T>
+Field<T> integer(std::string path, std::string unit, double min, double max, int& (*ref)(T&), std::string help) {
+  Field<T> f;
+  f.path = std::move(path);
+  f.type = FieldType::Integer;
+  f.unit = std::move(unit);
+  f.min = min;
+  f.max = max;
+  f.help = std::move(help);
+  f.getNumber = [ref](const T& s) { return double(ref(const_cast<T&>(s))); };
+  f.setNumber = [ref](T& s, double v) { ref(s) = int(v); };
+  return f;
+}
+
 template <class T>
 Field<T> text(std::string path, FieldType type, std::vector<std::string> choices,
               std::function<std::string(const T&)> get, std::function<void(T&, const std::string&)> set,
@@ -132,7 +147,7 @@ std::vector<Field<Scenario>> buildScenarioFields() {
                         "arm of the drilling (pivot) friction torque N * arm"));
   f.push_back(number<S>("surface.air_drag_coefficient", "-", 0, 3, 1,
                         [](S& s) -> double& { return s.surface.airDrag; }, "quadratic air drag coefficient C_d"));
-  f.push_back(number<S>("surface.restitution", "-", 0.05, 0.95, 1,
+  f.push_back(number<S>("surface.restitution", "-", 0.15, 0.95, 1,
                         [](S& s) -> double& { return s.surface.restitution; }, "normal coefficient of restitution"));
   f.push_back(colour<S>("surface.colour", [](S& s) -> Rgb& { return s.surface.colour; }, "table colour, sRGB hex"));
   f.push_back(number<S>("surface.grid_mm", "mm", 0, 100, mm, [](S& s) -> double& { return s.surface.gridSpacing; },
@@ -207,20 +222,17 @@ std::vector<Field<Scenario>> buildScenarioFields() {
                         [](S& s) -> double& { return s.observer.fieldOfView; }, "visitor view field of view"));
   f.push_back(number<S>("observer.view_span_mm", "mm", 10, 2000, mm,
                         [](S& s) -> double& { return s.observer.viewSpan; }, "top view: width of the table region shown"));
-  {
-    Field<S> size;
-    size.path = "observer.image_size_px";
-    size.type = FieldType::Integer;
-    size.unit = "px";
-    size.min = 16;
-    size.max = 4096;
-    size.help = "image width and height";
-    size.getNumber = [](const S& s) { return double(s.observer.imageSize); };
-    size.setNumber = [](S& s, double v) { s.observer.imageSize = int(v); };
-    f.push_back(size);
-  }
+  f.push_back(integer<S>("observer.image_size_px", "px", 16, 4096, [](S& s) -> int& { return s.observer.imageSize; },
+                         "image width and height"));
   f.push_back(number<S>("observer.spot_threshold", "-", 0.001, 1, 1,
                         [](S& s) -> double& { return s.observer.spotThreshold; }, "Weber contrast a spot must exceed"));
+  f.push_back(number<S>("observer.steady_precession_rev_s", "rev/s", 0, 100, revS,
+                        [](S& s) -> double& { return s.observer.steadyPrecession; },
+                        "above 0: show the exact steady spin at this precession (pressed end raised) instead of the run"));
+  f.push_back(number<S>("observer.frame_rate_hz", "Hz", 0, 1000, 1, [](S& s) -> double& { return s.observer.frameRate; },
+                        "camera video frame rate; 0 for a single exposure"));
+  f.push_back(integer<S>("observer.frame_count", "-", 1, 600, [](S& s) -> int& { return s.observer.frameCount; },
+                         "camera video: number of frames, each observer.exposure_s long and 1/frame_rate apart"));
   // lighting
   f.push_back(number<S>("lighting.ambient", "-", 0, 1, 1, [](S& s) -> double& { return s.lighting.ambient; },
                         "ambient light level"));
@@ -245,6 +257,17 @@ std::vector<Field<Scenario>> buildScenarioFields() {
                         "modulation frequency (rectified mains: twice the line frequency)"));
   f.push_back(number<S>("lighting.flicker_depth", "-", 0, 1, 1,
                         [](S& s) -> double& { return s.lighting.flickerDepth; }, "modulation depth (Michelson)"));
+  // analysis of traces, stops and spots
+  f.push_back(number<S>("analysis.window_s", "s", 0.05, 60, 1, [](S& s) -> double& { return s.analysis.window; },
+                        "length of each spot-statistics window"));
+  f.push_back(number<S>("analysis.window_step_s", "s", 0.01, 60, 1,
+                        [](S& s) -> double& { return s.analysis.windowStep; },
+                        "start-to-start spacing of the sliding spot-statistics windows"));
+  f.push_back(number<S>("analysis.dwell_speed_mm_s", "mm/s", 0.1, 10000, mm,
+                        [](S& s) -> double& { return s.analysis.dwellSpeed; },
+                        "horizontal speed below which a mark counts as stopped (sets the dwell)"));
+  f.push_back(number<S>("analysis.eye_time_ms", "ms", 1, 1000, 1e-3, [](S& s) -> double& { return s.analysis.eyeTime; },
+                        "eye integration time: a spot drifting more than its size in it reads as a ring"));
   return f;
 }
 
@@ -275,6 +298,18 @@ std::vector<Field<Marking>> buildMarkingFields() {
   f.push_back(number<M>("axial_mm", "mm", -500, 500, mm, [](M& m) -> double& { return m.axial; },
                         "dot: position along the axis from the centre (towards end A)"));
   f.push_back(number<M>("radius_mm", "mm", 0.05, 250, mm, [](M& m) -> double& { return m.radius; }, "dot: radius"));
+  return f;
+}
+
+std::vector<Field<TracePointSpec>> buildTracePointFields() {
+  using P = TracePointSpec;
+  std::vector<Field<P>> f;
+  f.push_back(text<P>("end", FieldType::Choice, {"A", "B"}, [](const P& p) { return std::string(endName(p.end)); },
+                      [](P& p, const std::string& v) { p.end = endFromName(v); }, "which end's outer rim edge", true));
+  f.push_back(number<P>("angle_deg", "deg", -360, 360, deg, [](P& p) -> double& { return p.angle; },
+                        "azimuth about the body axis from body x towards body y", true));
+  f.push_back(number<P>("size_mm", "mm", 0.05, 100, mm, [](P& p) -> double& { return p.size; },
+                        "extent along the rim of the mark the point stands for (sets its spot size)"));
   return f;
 }
 
@@ -501,6 +536,72 @@ json parseOverrideValue(const Field<T>& f, const std::string& value, const std::
   return v;
 }
 
+// Parses a JSON array of items (markings, trace points), each an object of
+// known fields; `path` names the array in messages.
+template <class T>
+std::vector<T> itemsFromJson(const json& array, const std::string& path, const std::vector<Field<T>>& fields) {
+  if (!array.is_array()) throw ScenarioError(path, "expected an array");
+  std::vector<T> items;
+  for (std::size_t i = 0; i < array.size(); ++i) {
+    const json& item = array[i];
+    const std::string itemPath = path + "." + std::to_string(i);
+    if (!item.is_object()) throw ScenarioError(itemPath, "expected an object");
+    T value;
+    std::set<std::string> seen;
+    for (auto it = item.begin(); it != item.end(); ++it) {
+      const auto* f = findIn(fields, it.key());
+      if (!f) throw ScenarioError(itemPath + "." + it.key(), "unknown key");
+      setFromJson(*f, value, *it, itemPath + "." + it.key());
+      seen.insert(it.key());
+    }
+    for (const auto& f : fields)
+      if (f.required && !seen.count(f.path)) throw ScenarioError(itemPath + "." + f.path, "missing required field");
+    items.push_back(value);
+  }
+  return items;
+}
+
+// Writes items as a JSON array of objects holding every field in file units.
+template <class T>
+json itemsToJson(const std::vector<T>& items, const std::vector<Field<T>>& fields) {
+  json array = json::array();
+  for (const T& item : items) {
+    json j = json::object();
+    for (const auto& f : fields) j[f.path] = fieldToJson(f, item);
+    array.push_back(j);
+  }
+  return array;
+}
+
+// Applies an override of one array item's field (`prefix` INDEX.key); false
+// when the path does not start with `prefix`.
+template <class T>
+bool overrideItem(json& doc, const std::string& path, const std::string& value, const std::string& prefix,
+                  const std::vector<Field<T>>& fields) {
+  if (path.rfind(prefix, 0) != 0) return false;
+  const auto dot = path.find('.', prefix.size());
+  if (dot == std::string::npos) throw ScenarioError(path, "expected " + prefix + "INDEX.key");
+  const auto* f = findIn(fields, path.substr(dot + 1));
+  if (!f) throw ScenarioError(path, "unknown key");
+  atPath(doc, path) = parseOverrideValue(*f, value, path);
+  return true;
+}
+
+// Cross-field rules of the observer: the eye's window must hold its whole
+// temporal response, and a video frame cannot expose longer than the frame
+// interval.
+void validateObserver(const ObserverSpec& o) {
+  if (o.mode == ExposureMode::Eye && o.exposure < k::minEyeWindow)
+    throw ScenarioError("observer.exposure_s", "value " + describe(o.exposure) + " s is too short for observer.mode eye; "
+                                               "allowed " + describe(k::minEyeWindow) + " to 10 s (the eye's response lasts about that long)");
+  if (o.frameCount > 1 && (o.frameRate <= 0 || o.mode != ExposureMode::Camera))
+    throw ScenarioError("observer.frame_count", "value " + std::to_string(o.frameCount) +
+                                                    " needs observer.mode camera and observer.frame_rate_hz above 0; allowed 1 otherwise");
+  if (o.frameRate > 0 && o.exposure > 1.0 / o.frameRate)
+    throw ScenarioError("observer.exposure_s", "value " + describe(o.exposure) + " s is longer than one frame at " +
+                                                   describe(o.frameRate) + " Hz; allowed 0.001 to " + describe(1.0 / o.frameRate) + " s");
+}
+
 }  // namespace
 
 const std::vector<Field<Scenario>>& scenarioFields() {
@@ -510,6 +611,11 @@ const std::vector<Field<Scenario>>& scenarioFields() {
 
 const std::vector<Field<Marking>>& markingFields() {
   static const std::vector<Field<Marking>> fields = buildMarkingFields();
+  return fields;
+}
+
+const std::vector<Field<TracePointSpec>>& tracePointFields() {
+  static const std::vector<Field<TracePointSpec>> fields = buildTracePointFields();
   return fields;
 }
 
@@ -648,6 +754,7 @@ void validate(const Scenario& s) {
                                                         " exceeds surface.friction_static " +
                                                         describe(s.surface.frictionStatic) + "; allowed 0 to the static value");
   checkNumerics(s);
+  validateObserver(s.observer);
   for (std::size_t i = 0; i < s.paint.markings.size(); ++i) {
     const Marking& m = s.paint.markings[i];
     const std::string prefix = "markings." + std::to_string(i) + ".";
@@ -656,6 +763,9 @@ void validate(const Scenario& s) {
       throw ScenarioError(prefix + "axial_mm", "value " + describe(m.axial / mm) + " is off the body; allowed " +
                                                    rangeText(-b.length / 2 / mm, b.length / 2 / mm, "mm").substr(8));
   }
+  for (std::size_t i = 0; i < s.analysis.tracePoints.size(); ++i)
+    for (const auto& f : tracePointFields())
+      checkRange(f, s.analysis.tracePoints[i], "analysis.trace_points." + std::to_string(i) + ".");
 }
 
 Scenario scenarioFromJson(const json& doc) {
@@ -678,24 +788,12 @@ Scenario scenarioFromJson(const json& doc) {
       const std::string path = prefix.empty() ? it.key() : prefix + "." + it.key();
       if (path == "dwellmark_scenario") continue;
       if (path == "markings") {
-        if (!it->is_array()) throw ScenarioError(path, "expected an array of markings");
-        s.paint.markings.clear();
-        for (std::size_t i = 0; i < it->size(); ++i) {
-          const json& mj = (*it)[i];
-          const std::string mp = "markings." + std::to_string(i);
-          if (!mj.is_object()) throw ScenarioError(mp, "expected an object");
-          Marking m;
-          std::set<std::string> mseen;
-          for (auto mt = mj.begin(); mt != mj.end(); ++mt) {
-            const auto* f = findIn(markingFields(), mt.key());
-            if (!f) throw ScenarioError(mp + "." + mt.key(), "unknown key");
-            setFromJson(*f, m, *mt, mp + "." + mt.key());
-            mseen.insert(mt.key());
-          }
-          for (const auto& f : markingFields())
-            if (f.required && !mseen.count(f.path)) throw ScenarioError(mp + "." + f.path, "missing required field");
-          s.paint.markings.push_back(m);
-        }
+        s.paint.markings = itemsFromJson(*it, path, markingFields());
+        seen.insert(path);
+        continue;
+      }
+      if (path == "analysis.trace_points") {
+        s.analysis.tracePoints = itemsFromJson(*it, path, tracePointFields());
         seen.insert(path);
         continue;
       }
@@ -735,13 +833,8 @@ json scenarioToJson(const Scenario& s) {
     if (f.path == "body.wall_mm" && !isHollow(s.body.shape)) continue;
     atPath(doc, f.path) = fieldToJson(f, s);
   }
-  json marks = json::array();
-  for (const Marking& m : s.paint.markings) {
-    json mj = json::object();
-    for (const auto& f : markingFields()) mj[f.path] = fieldToJson(f, m);
-    marks.push_back(mj);
-  }
-  doc["markings"] = marks;
+  doc["markings"] = itemsToJson(s.paint.markings, markingFields());
+  atPath(doc, "analysis.trace_points") = itemsToJson(s.analysis.tracePoints, tracePointFields());
   return doc;
 }
 
@@ -779,14 +872,8 @@ void applyOverride(json& doc, const std::string& assignment) {
     throw ScenarioError("--set", "expected key.path=value, got \"" + assignment + "\"");
   const std::string path = assignment.substr(0, eq);
   const std::string value = assignment.substr(eq + 1);
-  if (path.rfind("markings.", 0) == 0) {
-    const auto dot = path.find('.', 9);
-    if (dot == std::string::npos) throw ScenarioError(path, "expected markings.INDEX.key");
-    const auto* f = findIn(markingFields(), path.substr(dot + 1));
-    if (!f) throw ScenarioError(path, "unknown key");
-    atPath(doc, path) = parseOverrideValue(*f, value, path);
-    return;
-  }
+  if (overrideItem(doc, path, value, "markings.", markingFields())) return;
+  if (overrideItem(doc, path, value, "analysis.trace_points.", tracePointFields())) return;
   const auto* f = findField(path);
   if (!f) throw ScenarioError(path, "unknown key");
   atPath(doc, path) = parseOverrideValue(*f, value, path);

@@ -68,7 +68,7 @@ enum class Waveform { None, Sine, RectifiedMains };
 
 struct ObserverSpec {
   ViewKind view = ViewKind::Top;
-  ExposureMode mode = ExposureMode::Eye;
+  ExposureMode mode = ExposureMode::Camera;
   double start = 4.0;             ///< exposure start time, s
   double exposure = 0.5;          ///< box-shutter exposure / eye integration window, s
   double eyeHeight = 1.5;         ///< visitor eye above the table top, m
@@ -78,6 +78,9 @@ struct ObserverSpec {
   double viewSpan = 0.12;         ///< top view: width of the table region shown, m
   int imageSize = 512;            ///< image width and height, px
   double spotThreshold = 0.02;    ///< Weber contrast detection threshold, -
+  double steadyPrecession = 0;    ///< > 0: show the exact steady spin at this precession, rad/s; 0: the simulated run
+  double frameRate = 0;           ///< camera video frame rate, Hz; 0 = one exposure only
+  int frameCount = 1;             ///< camera video: number of frames, each exposure_s long, 1/frame_rate apart
 };
 
 struct LightingSpec {
@@ -88,6 +91,23 @@ struct LightingSpec {
   Waveform flicker = Waveform::None; ///< light modulation waveform
   double flickerFrequency = 100.0;   ///< modulation frequency, Hz (rectified mains: twice the line frequency)
   double flickerDepth = 0.0;         ///< modulation depth (Michelson), 0..1
+};
+
+/// A point on one end's outer rim edge whose path and stops are traced, in
+/// addition to the points taken from the markings.
+struct TracePointSpec {
+  End end = End::A;     ///< which end's rim
+  double angle = 0;     ///< azimuth about the body axis from body x towards body y, rad
+  double size = 0.002;  ///< extent of the mark it stands for along the rim, m (sets its spot size)
+};
+
+/// How a run's traces, stops and spots are analysed.
+struct AnalysisSpec {
+  double window = 1.0;         ///< length of each spot-statistics window, s
+  double windowStep = 0.5;     ///< start-to-start spacing of the sliding windows, s
+  double dwellSpeed = 0.05;    ///< horizontal speed below which a mark counts as stopped, m/s
+  double eyeTime = 0.1;        ///< eye integration time that tells a creeping pattern from a ring, s
+  std::vector<TracePointSpec> tracePoints;  ///< extra rim points to trace
 };
 
 /// All inputs of a run, SI.
@@ -102,6 +122,7 @@ struct Scenario {
   ContactSpec contact;
   ObserverSpec observer;
   LightingSpec lighting;
+  AnalysisSpec analysis;
 };
 
 /// The body's geometry and mass, derived from the scenario.
@@ -141,6 +162,8 @@ struct Field {
 const std::vector<Field<Scenario>>& scenarioFields();
 /// The table of fields of one marking (paths relative to the marking).
 const std::vector<Field<Marking>>& markingFields();
+/// The table of fields of one extra trace point (paths relative to the point).
+const std::vector<Field<TracePointSpec>>& tracePointFields();
 /// Finds a field by dotted path, or nullptr.
 const Field<Scenario>* findField(const std::string& path);
 
@@ -184,7 +207,8 @@ nlohmann::json parseScenarioText(const std::string& text, const std::string& ori
 
 /// Applies `key.path=value` overrides to a scenario document before parsing.
 /// Numbers, true/false and quoted or bare strings are accepted; the path must
-/// name an existing field (markings by index: markings.0.colour).
+/// name an existing field (array items by index: markings.0.colour,
+/// analysis.trace_points.0.angle_deg).
 void applyOverride(nlohmann::json& doc, const std::string& assignment);
 
 /// sRGB "#rrggbb" <-> linear RGB (IEC 61966-2-1 transfer function).

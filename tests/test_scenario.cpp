@@ -21,7 +21,7 @@ namespace {
 json demoDoc() { return readScenarioJson(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json"); }
 
 // The error a broken document raises, if any.
-std::optional<ScenarioError> refusal(const json& doc) {
+std::optional<ScenarioError> refusalOf(const json& doc) {
   try {
     scenarioFromJson(doc);
   } catch (const ScenarioError& e) {
@@ -30,13 +30,15 @@ std::optional<ScenarioError> refusal(const json& doc) {
   return std::nullopt;
 }
 
-// The field it names, and its whole message ("" if none).
+// The field named by the error a broken document raises ("" if none).
 std::string refusedField(const json& doc) {
-  const auto e = refusal(doc);
+  const auto e = refusalOf(doc);
   return e ? e->field() : "";
 }
-std::string refusalOf(const json& doc) {
-  const auto e = refusal(doc);
+
+// The whole message of the error a broken document raises ("" if none).
+std::string refusal(const json& doc) {
+  const auto e = refusalOf(doc);
   return e ? e->what() : "";
 }
 
@@ -159,6 +161,59 @@ TEST_CASE("sRGB transfer matches IEC 61966-2-1", "[scenario][colour]") {
   for (double v : {0.0, 0.01, 0.2, 0.7, 1.0}) CHECK(linearToSrgb(srgbToLinear(v)) == Approx(v).margin(1e-12));
 }
 
+TEST_CASE("analysis fields default to a 1 s window every 0.5 s and read in file units", "[scenario]") {
+  json doc = demoDoc();
+  CHECK(scenarioFromJson(doc).analysis.window == 1.0);
+  CHECK(scenarioFromJson(doc).analysis.windowStep == 0.5);
+  doc["analysis"] = {{"window_s", 2.0}, {"window_step_s", 0.25}, {"dwell_speed_mm_s", 20.0}, {"eye_time_ms", 50.0}};
+  const Scenario s = scenarioFromJson(doc);
+  CHECK(s.analysis.window == 2.0);
+  CHECK(s.analysis.windowStep == 0.25);
+  CHECK(s.analysis.dwellSpeed == Approx(0.02));
+  CHECK(s.analysis.eyeTime == Approx(0.05));
+}
+
+TEST_CASE("trace points parse, round-trip and are range-checked by name", "[scenario]") {
+  json doc = demoDoc();
+  doc["analysis"]["trace_points"] = {{{"end", "B"}, {"angle_deg", 90.0}, {"size_mm", 1.5}}, {{"end", "A"}, {"angle_deg", -30.0}}};
+  const Scenario s = scenarioFromJson(doc);
+  REQUIRE(s.analysis.tracePoints.size() == 2);
+  CHECK(s.analysis.tracePoints[0].end == End::B);
+  CHECK(s.analysis.tracePoints[0].angle == Approx(k::pi / 2));
+  CHECK(s.analysis.tracePoints[0].size == Approx(0.0015));
+  CHECK(s.analysis.tracePoints[1].size == Approx(0.002));  // the default
+
+  const Scenario again = scenarioFromJson(scenarioToJson(s));
+  REQUIRE(again.analysis.tracePoints.size() == 2);
+  CHECK(again.analysis.tracePoints[1].angle == Approx(-30 * k::degree));
+
+  json bad = doc;
+  bad["analysis"]["trace_points"][1]["angle_deg"] = 400.0;
+  CHECK(refusal(bad) == "analysis.trace_points.1.angle_deg: value 400 is out of range; allowed -360 to 360 deg");
+  bad = doc;
+  bad["analysis"]["trace_points"][0].erase("end");
+  CHECK(refusal(bad) == "analysis.trace_points.0.end: missing required field");
+  bad = doc;
+  bad["analysis"]["trace_points"][0]["colour"] = "#ffffff";
+  CHECK(refusal(bad) == "analysis.trace_points.0.colour: unknown key");
+  bad = doc;
+  bad["analysis"]["window_s"] = 0.01;
+  CHECK(refusal(bad) == "analysis.window_s: value 0.01 is out of range; allowed 0.05 to 60 s");
+}
+
+TEST_CASE("overrides (--set) reach analysis fields and trace point items", "[scenario]") {
+  json doc = demoDoc();
+  doc["analysis"]["trace_points"] = {{{"end", "A"}, {"angle_deg", 0.0}}};
+  applyOverride(doc, "analysis.trace_points.0.angle_deg=45");
+  applyOverride(doc, "analysis.eye_time_ms=80");
+  const Scenario s = scenarioFromJson(doc);
+  CHECK(s.analysis.tracePoints[0].angle == Approx(k::pi / 4));
+  CHECK(s.analysis.eyeTime == Approx(0.08));
+  CHECK_THROWS_WITH(applyOverride(doc, "analysis.trace_points.0.hue=1"), "analysis.trace_points.0.hue: unknown key");
+  CHECK_THROWS_WITH(applyOverride(doc, "analysis.trace_points.3.angle_deg=1"),
+                    "analysis.trace_points.3.angle_deg: no element 3 here");
+}
+
 TEST_CASE("hand edits: a repeated key, deep nesting and a group given as a value are refused with their path",
           "[scenario][parse]") {
   auto refusedText = [](const std::string& text) {
@@ -278,8 +333,8 @@ TEST_CASE("numerics refusals name the setting and a value that is then accepted"
   CHECK(refusedField(coin) == "contact.frequency_hz");
   // sqrt(g / (0.01 R)) / 2 pi with R = 1 mm: 157.6 Hz, so 158 Hz; its
   // contact period then needs 4 steps per 1 ms row (a twentieth each).
-  CHECK(refusalOf(coin).find("allowed at least 158 Hz") != std::string::npos);
-  CHECK(refusalOf(coin).find("run.substeps at least 4") != std::string::npos);
+  CHECK(refusal(coin).find("allowed at least 158 Hz") != std::string::npos);
+  CHECK(refusal(coin).find("run.substeps at least 4") != std::string::npos);
   applyOverride(coin, "contact.frequency_hz=158");
   CHECK(refusedField(coin) == "run.substeps");
   applyOverride(coin, "run.substeps=4");
@@ -293,7 +348,7 @@ TEST_CASE("numerics refusals name the setting and a value that is then accepted"
   applyOverride(rod, "launch.backspin=2");
   // Axial spin 2 x 314 rad/s x (L / D) = 25 000 rad/s: over half the runaway limit.
   CHECK(refusedField(rod) == "launch.backspin");
-  const std::string said = refusalOf(rod);
+  const std::string said = refusal(rod);
   const auto at = said.find("allowed at most ");
   REQUIRE(at != std::string::npos);
   const double largest = std::stod(said.substr(at + 16));
@@ -312,7 +367,7 @@ TEST_CASE("numerics refusals name the setting and a value that is then accepted"
   applyOverride(sparse, "contact.frequency_hz=2000");
   CHECK(refusedField(sparse) == "run.substeps");
   // A twentieth of 0.5 ms is 25 us; 1000 of them make 25 ms.
-  CHECK(refusalOf(sparse).find("lower run.sample_ms to at most 25") != std::string::npos);
+  CHECK(refusal(sparse).find("lower run.sample_ms to at most 25") != std::string::npos);
   applyOverride(sparse, "run.sample_ms=25");
   applyOverride(sparse, "run.substeps=1000");
   CHECK(refusedField(sparse) == "");

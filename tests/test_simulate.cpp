@@ -106,7 +106,7 @@ TEST_CASE("simulate reports a fault with exit code 3 and writes nothing", "[simu
   CHECK_FALSE(fs::exists(out));
 }
 
-TEST_CASE("a finished run writes both files, and the folder is then refused without force", "[simulate][cli]") {
+TEST_CASE("a finished run writes its four files, and the folder is then refused without force", "[simulate][cli]") {
   Scenario s = scenarioFromJson(demoDoc());
   SimulateOptions o;
   o.duration = 0.05;
@@ -116,8 +116,10 @@ TEST_CASE("a finished run writes both files, and the folder is then refused with
   REQUIRE(app::finishSimulation(s, r, out.string(), said, complaint) == app::exitOk);
   CHECK(fs::file_size(out / "trajectory.csv") > 0);
   CHECK(fs::file_size(out / "summary.json") > 0);
+  CHECK(fs::file_size(out / "traces.csv") > 0);
+  CHECK(fs::exists(out / "stops.csv"));
   // Nothing else, in particular no temporary file.
-  CHECK(std::distance(fs::directory_iterator(out), fs::directory_iterator()) == 2);
+  CHECK(std::distance(fs::directory_iterator(out), fs::directory_iterator()) == 4);
   CHECK_THROWS_AS(checkOutputDir(out.string(), false), OutputError);
   fs::remove_all(out);
 }
@@ -290,7 +292,7 @@ TEST_CASE("extreme designs end with a result or a named refusal, finite outputs 
     REQUIRE_FALSE(r.fault);
     CHECK(r.summary.endTime == Approx(duration));
     // Every number that reaches a file is finite (fmt and jsonFileText throw otherwise).
-    CHECK_NOTHROW(simulationFiles(s, r));
+    CHECK_NOTHROW(simulationFiles(s, r, analysePattern(s, r)));
     const double stepRatio = (1 / s.run.timeStep()) / demoStepsPerSecond;
     CHECK(stepRatio <= 10);
     CHECK(wall <= 10 * demoWall);
