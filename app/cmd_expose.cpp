@@ -7,6 +7,7 @@
 #include "app/cli.hpp"
 #include "core/io.hpp"
 #include "core/simulate.hpp"
+#include "render/image.hpp"
 #include "render/observe.hpp"
 
 namespace dm::app {
@@ -47,8 +48,7 @@ std::optional<Observation> observe(const Scenario& s) {
   options.duration = observedUntil(s.observer);
   auto run = std::make_shared<const RunResult>(simulate(s, options));
   if (run->fault) {
-    std::cerr << "dwellmark: numerical fault at t = " << run->fault->time << " s in phase "
-              << phaseName(run->fault->phase) << ": " << run->fault->reason << "\n  nothing was written.\n";
+    std::cerr << "dwellmark: " << faultReport(*run->fault) << "\n  nothing was written.\n";
     return std::nullopt;
   }
   return observeRun(s, run, s.observer.start, s.observer.start + s.observer.exposure);
@@ -63,18 +63,17 @@ void printSummary(const ExposureResult& r, const Observation& seen) {
 
 int runExpose(const ExposeArgs& a) {
   const Scenario s = loadScenarioWithOverrides(a.scenario, flagOverrides(a));
-  prepareOutputDir(a.out, a.force);
+  // Refuse a folder that would mix results before the run; create it only
+  // when there is something to write.
+  checkOutputDir(a.out, a.force);
   const std::optional<Observation> seen = observe(s);
   if (!seen) return exitFault;
   const std::string dir = a.out + "/";
   const ExposureResult first = exposeObservation(s, *seen, s.observer.start, a.threads);
   nlohmann::json report = spotsJson(s, *seen, first);
-  writePng(dir + "exposure.png", first.exposure.image);
-  std::cout << "wrote " << dir << "exposure.png\n";
-  if (a.pfm) {
-    writePfm(dir + "exposure.pfm", first.exposure.image);
-    std::cout << "wrote " << dir << "exposure.pfm\n";
-  }
+  // The first exposure's files, formatted (and checked for NaN) before any is written.
+  std::vector<OutputFile> files{{"exposure.png", encodePng(first.exposure.image)}};
+  if (a.pfm) files.push_back({"exposure.pfm", encodePfm(first.exposure.image)});
   printSummary(first, *seen);
   // A camera's video: each frame its own exposure, 1/frame_rate apart.
   if (s.observer.frameCount > 1) {
@@ -94,8 +93,9 @@ int runExpose(const ExposeArgs& a) {
     report["frames"] = frames;
     std::cout << "wrote " << s.observer.frameCount << " frames in " << dir << "frames/\n";
   }
-  writeFileAtomic(dir + "spots.json", report.dump(2) + "\n");
-  std::cout << "wrote " << dir << "spots.json\n";
+  files.push_back({"spots.json", jsonFileText(report)});
+  writeOutputs(a.out, files);
+  for (const OutputFile& f : files) std::cout << "wrote " << dir << f.name << "\n";
   return exitOk;
 }
 

@@ -80,6 +80,25 @@ void writeOutputs(const std::string& dir, const std::vector<OutputFile>& files) 
   for (const OutputFile& f : files) writeFileAtomic((fs::path(dir) / f.name).string(), f.content);
 }
 
+namespace {
+
+// Throws std::domain_error naming the first non-finite number's path.
+void requireFinite(const nlohmann::json& j, const std::string& path) {
+  if (j.is_number_float() && !std::isfinite(j.get<double>()))
+    throw std::domain_error("a non-finite number reached an output at " + (path.empty() ? "(top)" : path));
+  if (j.is_object())
+    for (auto it = j.begin(); it != j.end(); ++it) requireFinite(*it, path.empty() ? it.key() : path + "." + it.key());
+  if (j.is_array())
+    for (std::size_t i = 0; i < j.size(); ++i) requireFinite(j[i], path + "." + std::to_string(i));
+}
+
+}  // namespace
+
+std::string jsonFileText(const nlohmann::json& j) {
+  requireFinite(j, "");
+  return j.dump(2) + "\n";
+}
+
 std::string fmt(double v, int digits) {
   if (!std::isfinite(v)) throw std::domain_error("a non-finite number reached an output");
   char buf[40];

@@ -5,6 +5,8 @@
 #include <string>
 #include <vector>
 
+#include <nlohmann/json.hpp>
+
 namespace dm {
 
 class OutputError : public std::runtime_error {
@@ -40,5 +42,10 @@ void writeOutputs(const std::string& dir, const std::vector<OutputFile>& files);
 /// Formats a number for text outputs: `digits` significant digits, no NaN or
 /// infinity (those throw std::domain_error: they must never reach a file).
 std::string fmt(double v, int digits = 9);
+
+/// JSON text for a file (two-space indent, final newline). Throws
+/// std::domain_error when any number in `j` is NaN or infinite: the JSON
+/// library would otherwise write it as null without a word.
+std::string jsonFileText(const nlohmann::json& j);
 
 }  // namespace dm

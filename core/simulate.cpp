@@ -132,6 +132,17 @@ RunResult simulateFrom(const Params& p, const State& initial, double duration, d
   return result;
 }
 
+std::string faultReport(const Fault& f) {
+  const State& g = f.lastGood;
+  std::ostringstream o;
+  o.precision(6);
+  o << "numerical fault at t = " << f.time << " s in phase " << phaseName(f.phase) << ": " << f.reason
+    << "\n  last good state: t = " << g.t << " s, centre (" << g.position.x() * 1e3 << ", " << g.position.y() * 1e3
+    << ", " << g.position.z() * 1e3 << ") mm, speed " << g.velocity.norm() << " m/s, spin " << g.spinBody.norm()
+    << " rad/s";
+  return o.str();
+}
+
 RunResult simulate(const Scenario& sc, const SimulateOptions& options) {
   const Params p = makeParams(sc);
   const State s0 = launchState(p, sc.launch);

@@ -25,6 +25,11 @@ struct Fault {
   std::string reason;
 };
 
+/// The message for a run stopped by a numerical fault: when (time, phase),
+/// why, and the last good state in practical units. Several lines, no final
+/// newline; the same for the command line and the GUI.
+std::string faultReport(const Fault& f);
+
 /// Events and extremes of a run (what summary.json reports).
 struct RunSummary {
   End pressedEnd = End::A;

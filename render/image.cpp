@@ -41,8 +41,20 @@ void appendBytes(png_structp png, png_bytep data, png_size_t n) {
 
 }  // namespace
 
+namespace {
+
+// Refuses an image with a NaN or infinite channel: like fmt for text, no
+// non-finite number may reach a file (and NaN has no PNG byte).
+void requireFinite(const Image& img) {
+  for (float v : img.rgb)
+    if (!std::isfinite(v)) throw std::domain_error("a non-finite pixel reached an image output");
+}
+
+}  // namespace
+
 std::string encodePng(const Image& img) {
   if (img.width <= 0 || img.height <= 0) throw std::invalid_argument("empty image");
+  requireFinite(img);
   std::string out;
   png_structp png = png_create_write_struct(PNG_LIBPNG_VER_STRING, nullptr, nullptr, nullptr);
   png_infop info = png_create_info_struct(png);
@@ -81,12 +93,15 @@ Image readPng(const std::string& path) {
   return img;
 }
 
-void writePfm(const std::string& path, const Image& img) {
+std::string encodePfm(const Image& img) {
+  requireFinite(img);
   std::string out = "PF\n" + std::to_string(img.width) + " " + std::to_string(img.height) + "\n-1.0\n";
   for (int y = img.height - 1; y >= 0; --y)
     out.append(reinterpret_cast<const char*>(&img.rgb[std::size_t(y) * std::size_t(img.width) * 3]),
                std::size_t(img.width) * 3 * sizeof(float));
-  writeFileAtomic(path, out);
+  return out;
 }
+
+void writePfm(const std::string& path, const Image& img) { writeFileAtomic(path, encodePfm(img)); }
 
 }  // namespace dm

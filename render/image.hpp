@@ -19,8 +19,12 @@ struct Image {
   void set(int x, int y, const Rgb& c);
 };
 
-/// PNG bytes (8-bit sRGB, IEC 61966-2-1 transfer) of an image.
+/// PNG bytes (8-bit sRGB, IEC 61966-2-1 transfer) of an image. Throws
+/// std::domain_error on a NaN or infinite channel.
 std::string encodePng(const Image& img);
+/// PFM bytes (linear float RGB, little-endian, bottom row first); throws
+/// std::domain_error on a NaN or infinite channel.
+std::string encodePfm(const Image& img);
 /// Writes an image as 8-bit sRGB PNG, atomically.
 void writePng(const std::string& path, const Image& img);
 /// Reads an 8-bit RGB or RGBA PNG back into linear light (for tests).

@@ -1,5 +1,5 @@
 // File output: atomic writes, output folders that are never silently mixed,
-// and no NaN or infinity in any text that reaches a file.
+// and no NaN or infinity in any text or image that reaches a file.
 #include <filesystem>
 #include <fstream>
 #include <limits>
@@ -9,8 +9,8 @@
 
 #include <catch2/catch.hpp>
 
-#include "core/export.hpp"
 #include "core/io.hpp"
+#include "render/image.hpp"
 
 using namespace dm;
 namespace fs = std::filesystem;
@@ -97,4 +97,14 @@ TEST_CASE("no NaN or infinity reaches a text output", "[io]") {
   j["list"][1] = 2.0;
   j["deep"]["x"] = std::numeric_limits<double>::infinity();
   CHECK_THROWS_WITH(jsonFileText(j), Catch::Contains("deep.x"));
+}
+
+TEST_CASE("no NaN or infinity reaches an image output", "[io]") {
+  Image img(4, 3, Rgb{0.2, 0.4, 0.6});
+  CHECK(encodePng(img).substr(1, 3) == "PNG");
+  CHECK(encodePfm(img).substr(0, 3) == "PF\n");
+  // A NaN has no PNG byte (lround of NaN is unspecified) and must not be stored as a float either.
+  img.set(2, 1, Rgb{0.2, std::numeric_limits<double>::quiet_NaN(), 0.6});
+  CHECK_THROWS_AS(encodePng(img), std::domain_error);
+  CHECK_THROWS_AS(encodePfm(img), std::domain_error);
 }
