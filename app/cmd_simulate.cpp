@@ -1,4 +1,5 @@
-// dwellmark simulate: one headless run, writing trajectory.csv and summary.json.
+// dwellmark simulate: one headless run, writing trajectory.csv, traces.csv,
+// stops.csv and summary.json (with the spot pattern per time window).
 #include <iostream>
 
 #include "app/cli.hpp"
@@ -34,16 +35,22 @@ int runSimulate(const SimulateArgs& a) {
               << " m/s, spin " << g.spinBody.norm() << " rad/s\n  nothing was written.\n";
     return exitFault;
   }
+  const PatternAnalysis pattern = analysePattern(s, r);
   const std::string dir = a.out + "/";
   writeFileAtomic(dir + "trajectory.csv", trajectoryCsv(r, s.run.sampleInterval));
+  writeFileAtomic(dir + "traces.csv", tracesCsv(pattern));
+  writeFileAtomic(dir + "stops.csv", stopsCsv(pattern));
   nlohmann::json summary = summaryJson(r);
   summary["scenario"] = s.name;
+  summary["pattern"] = patternJson(pattern.windows);
   writeFileAtomic(dir + "summary.json", summary.dump(2) + "\n");
   std::cout << "simulated " << r.summary.endTime << " s of \"" << s.name << "\"\n";
   std::cout << "  settle time: " << (r.summary.settleTime ? fmt(*r.summary.settleTime, 4) + " s" : "never settled")
             << ", raised end: " << (r.summary.raisedEnd ? std::string(endName(*r.summary.raisedEnd)) : "none")
             << ", rest time: " << (r.summary.restTime ? fmt(*r.summary.restTime, 4) + " s" : "still moving") << "\n";
-  std::cout << "wrote " << dir << "trajectory.csv\nwrote " << dir << "summary.json\n";
+  if (!pattern.windows.empty()) std::cout << "  last pattern window " << patternSentence(pattern.windows.back()) << "\n";
+  for (const char* name : {"trajectory.csv", "traces.csv", "stops.csv", "summary.json"})
+    std::cout << "wrote " << dir << name << "\n";
   return exitOk;
 }
 
@@ -51,7 +58,7 @@ int runSimulate(const SimulateArgs& a) {
 
 void addSimulateCommand(CLI::App& app, Commands& commands) {
   auto args = std::make_shared<SimulateArgs>();
-  CLI::App* sub = app.add_subcommand("simulate", "Run the physics headless; write trajectory.csv and summary.json");
+  CLI::App* sub = app.add_subcommand("simulate", "Run the physics headless; write trajectory.csv, traces.csv, stops.csv and summary.json");
   sub->add_option("scenario", args->scenario, "scenario JSON file")->required();
   sub->add_option("--out", args->out, "output folder (new or empty)")->required();
   sub->add_option("--set", args->sets, "override a scenario field: key.path=value (repeatable)");

@@ -3,6 +3,7 @@
 #include <cmath>
 #include <sstream>
 
+#include "core/constants.hpp"
 #include "core/io.hpp"
 #include "core/kinematics.hpp"
 
@@ -29,6 +30,99 @@ std::string trajectoryCsv(const RunResult& r, double sampleInterval) {
       << fmt(s.normal, 6) << ',';
     if (row < r.energyAt.size()) o << fmt(r.energyAt[row] * 1e3, 9);
     o << '\n';
+  }
+  return o.str();
+}
+
+namespace {
+
+// Appends ",x,y,z" in mm.
+void writeMm(std::ostringstream& o, const Vec3& p) {
+  o << ',' << fmt(p.x() * 1e3) << ',' << fmt(p.y() * 1e3) << ',' << fmt(p.z() * 1e3);
+}
+
+// Header columns "name_x_mm,name_y_mm,name_z_mm", each preceded by a comma.
+std::string xyzColumns(const std::string& name) {
+  return "," + name + "_x_mm," + name + "_y_mm," + name + "_z_mm";
+}
+
+constexpr double degPerRad = 1 / k::degree;
+
+}  // namespace
+
+std::string tracesCsv(const PatternAnalysis& a) {
+  std::ostringstream o;
+  o << "t_s" << xyzColumns("floor") << xyzColumns("ceiling");
+  for (const MarkedPoint& p : a.points) o << xyzColumns(p.label);
+  o << '\n';
+  const Traces& t = a.traces;
+  for (std::size_t i = 0; i < t.time.size(); ++i) {
+    o << fmt(t.time[i], 8);
+    writeMm(o, t.floorContact[i]);
+    writeMm(o, t.ceilingContact[i]);
+    for (const auto& path : t.points) writeMm(o, path[i]);
+    o << '\n';
+  }
+  return o.str();
+}
+
+std::string stopsCsv(const PatternAnalysis& a) {
+  std::ostringstream o;
+  o << "t_s,point,end,x_mm,y_mm,z_mm,horizontal_speed_mm_s,dwell_ms\n";
+  for (const StopEvent& s : a.stops) {
+    o << fmt(s.time, 12) << ',' << a.points[s.point].label << ',' << endName(s.end);
+    writeMm(o, s.position);
+    o << ',' << fmt(s.horizontalSpeed * 1e3, 6) << ',' << fmt(s.dwell * 1e3, 6) << '\n';
+  }
+  return o.str();
+}
+
+nlohmann::json patternJson(const std::vector<PatternWindow>& windows) {
+  using nlohmann::json;
+  json list = json::array();
+  for (const PatternWindow& w : windows) {
+    json azimuths = json::array(), drifts = json::array();
+    for (const Spot& s : w.spots) {
+      azimuths.push_back(s.azimuth * degPerRad);
+      drifts.push_back(s.drift * degPerRad);
+    }
+    json j;
+    j["start_s"] = w.start;
+    j["end_s"] = w.end;
+    j["visible_end"] = w.visibleEnd ? json(endName(*w.visibleEnd)) : json(nullptr);
+    j["spot_count"] = w.spots.size();
+    j["spot_azimuths_deg"] = azimuths;
+    j["drift_deg_s"] = drifts;
+    j["spots_per_rev"] = w.spotsPerRev ? json(*w.spotsPerRev) : json(nullptr);
+    j["kind"] = patternKindName(w.kind);
+    j["revs_per_visit"] = w.revsPerVisit;
+    j["pattern_drift_deg_s"] = w.patternDrift * degPerRad;
+    j["spot_size_deg"] = w.spotSize * degPerRad;
+    j["stop_count"] = w.stopCount;
+    j["mean_tilt_deg"] = w.meanTilt * degPerRad;
+    j["mean_precession_rev_s"] = w.meanPrecession / k::twoPi;
+    list.push_back(j);
+  }
+  return list;
+}
+
+std::string patternSentence(const PatternWindow& w) {
+  std::ostringstream o;
+  o << fmt(w.start, 4) << "-" << fmt(w.end, 4) << " s: ";
+  if (!w.visibleEnd) return o.str() + "no end raised";
+  o << "end " << endName(*w.visibleEnd) << " seen from above";
+  if (w.spotsPerRev) o << ", N = " << fmt(*w.spotsPerRev, 5);
+  switch (w.kind) {
+    case PatternKind::None: o << ", too few stops to tell a pattern"; break;
+    case PatternKind::Ring:
+      o << ", a washed-out ring";
+      if (!w.spots.empty()) o << " (" << w.spots.size() << " spots drifting " << fmt(w.patternDrift * degPerRad, 3) << " deg/s)";
+      break;
+    case PatternKind::Stationary:
+    case PatternKind::Creeping:
+      o << ", " << w.spots.size() << " spots " << patternKindName(w.kind) << " at " << fmt(w.patternDrift * degPerRad, 3)
+        << " deg/s, each visited every " << w.revsPerVisit << " rev";
+      break;
   }
   return o.str();
 }

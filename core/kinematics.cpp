@@ -24,6 +24,13 @@ AxisMotion axisMotion(const Quat& worldFromBody, const Vec3& w) {
   return m;
 }
 
+Vec3 rimUpDirection(const Quat& worldFromBody) {
+  const Vec3 a = worldFromBody * Vec3::UnitZ();
+  const Vec3 h = up() - a.z() * a;
+  const double n = h.norm();
+  return n > 1e-12 ? Vec3(h / n) : Vec3(worldFromBody * Vec3::UnitX());
+}
+
 namespace {
 
 // Rim sample directions (cos, sin) at 32 even azimuths: the largest speed

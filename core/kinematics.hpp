@@ -26,6 +26,12 @@ inline constexpr double minPrecessionForN = 0.06;
 
 AxisMotion axisMotion(const Quat& worldFromBody, const Vec3& spinWorld);
 
+/// Unit vector in the plane of the ends (perpendicular to the axis) that
+/// points most nearly up: an end's highest rim point is its centre plus R
+/// times it, its lowest the centre minus R times it. With the axis vertical
+/// every rim point is equally high and body x is returned.
+Vec3 rimUpDirection(const Quat& worldFromBody);
+
 /// Fastest speed of any surface point (rim points of both ends), m/s.
 double fastestSurfaceSpeed(const struct Cylinder& c, const Quat& worldFromBody, const Vec3& velocity,
                            const Vec3& spinWorld);

@@ -234,6 +234,17 @@ std::vector<Field<Scenario>> buildScenarioFields() {
                         "modulation frequency (rectified mains: twice the line frequency)"));
   f.push_back(number<S>("lighting.flicker_depth", "-", 0, 1, 1,
                         [](S& s) -> double& { return s.lighting.flickerDepth; }, "modulation depth (Michelson)"));
+  // analysis of traces, stops and spots
+  f.push_back(number<S>("analysis.window_s", "s", 0.05, 60, 1, [](S& s) -> double& { return s.analysis.window; },
+                        "length of each spot-statistics window"));
+  f.push_back(number<S>("analysis.window_step_s", "s", 0.01, 60, 1,
+                        [](S& s) -> double& { return s.analysis.windowStep; },
+                        "start-to-start spacing of the sliding spot-statistics windows"));
+  f.push_back(number<S>("analysis.dwell_speed_mm_s", "mm/s", 0.1, 10000, mm,
+                        [](S& s) -> double& { return s.analysis.dwellSpeed; },
+                        "horizontal speed below which a mark counts as stopped (sets the dwell)"));
+  f.push_back(number<S>("analysis.eye_time_ms", "ms", 1, 1000, 1e-3, [](S& s) -> double& { return s.analysis.eyeTime; },
+                        "eye integration time: a spot drifting more than its size in it reads as a ring"));
   return f;
 }
 
@@ -264,6 +275,18 @@ std::vector<Field<Marking>> buildMarkingFields() {
   f.push_back(number<M>("axial_mm", "mm", -500, 500, mm, [](M& m) -> double& { return m.axial; },
                         "dot: position along the axis from the centre (towards end A)"));
   f.push_back(number<M>("radius_mm", "mm", 0.05, 250, mm, [](M& m) -> double& { return m.radius; }, "dot: radius"));
+  return f;
+}
+
+std::vector<Field<TracePointSpec>> buildTracePointFields() {
+  using P = TracePointSpec;
+  std::vector<Field<P>> f;
+  f.push_back(text<P>("end", FieldType::Choice, {"A", "B"}, [](const P& p) { return std::string(endName(p.end)); },
+                      [](P& p, const std::string& v) { p.end = endFromName(v); }, "which end's outer rim edge", true));
+  f.push_back(number<P>("angle_deg", "deg", -360, 360, deg, [](P& p) -> double& { return p.angle; },
+                        "azimuth about the body axis from body x towards body y", true));
+  f.push_back(number<P>("size_mm", "mm", 0.05, 100, mm, [](P& p) -> double& { return p.size; },
+                        "extent along the rim of the mark the point stands for (sets its spot size)"));
   return f;
 }
 
@@ -372,6 +395,57 @@ json parseOverrideValue(const Field<T>& f, const std::string& value, const std::
   return v;
 }
 
+// Parses a JSON array of items (markings, trace points), each an object of
+// known fields; `path` names the array in messages.
+template <class T>
+std::vector<T> itemsFromJson(const json& array, const std::string& path, const std::vector<Field<T>>& fields) {
+  if (!array.is_array()) throw ScenarioError(path, "expected an array");
+  std::vector<T> items;
+  for (std::size_t i = 0; i < array.size(); ++i) {
+    const json& item = array[i];
+    const std::string itemPath = path + "." + std::to_string(i);
+    if (!item.is_object()) throw ScenarioError(itemPath, "expected an object");
+    T value;
+    std::set<std::string> seen;
+    for (auto it = item.begin(); it != item.end(); ++it) {
+      const auto* f = findIn(fields, it.key());
+      if (!f) throw ScenarioError(itemPath + "." + it.key(), "unknown key");
+      setFromJson(*f, value, *it, itemPath + "." + it.key());
+      seen.insert(it.key());
+    }
+    for (const auto& f : fields)
+      if (f.required && !seen.count(f.path)) throw ScenarioError(itemPath + "." + f.path, "missing required field");
+    items.push_back(value);
+  }
+  return items;
+}
+
+// Writes items as a JSON array of objects holding every field in file units.
+template <class T>
+json itemsToJson(const std::vector<T>& items, const std::vector<Field<T>>& fields) {
+  json array = json::array();
+  for (const T& item : items) {
+    json j = json::object();
+    for (const auto& f : fields) j[f.path] = fieldToJson(f, item);
+    array.push_back(j);
+  }
+  return array;
+}
+
+// Applies an override of one array item's field (`prefix` INDEX.key); false
+// when the path does not start with `prefix`.
+template <class T>
+bool overrideItem(json& doc, const std::string& path, const std::string& value, const std::string& prefix,
+                  const std::vector<Field<T>>& fields) {
+  if (path.rfind(prefix, 0) != 0) return false;
+  const auto dot = path.find('.', prefix.size());
+  if (dot == std::string::npos) throw ScenarioError(path, "expected " + prefix + "INDEX.key");
+  const auto* f = findIn(fields, path.substr(dot + 1));
+  if (!f) throw ScenarioError(path, "unknown key");
+  atPath(doc, path) = parseOverrideValue(*f, value, path);
+  return true;
+}
+
 }  // namespace
 
 const std::vector<Field<Scenario>>& scenarioFields() {
@@ -381,6 +455,11 @@ const std::vector<Field<Scenario>>& scenarioFields() {
 
 const std::vector<Field<Marking>>& markingFields() {
   static const std::vector<Field<Marking>> fields = buildMarkingFields();
+  return fields;
+}
+
+const std::vector<Field<TracePointSpec>>& tracePointFields() {
+  static const std::vector<Field<TracePointSpec>> fields = buildTracePointFields();
   return fields;
 }
 
@@ -447,6 +526,9 @@ void validate(const Scenario& s) {
       throw ScenarioError(prefix + "axial_mm", "value " + describe(m.axial / mm) + " is off the body; allowed " +
                                                    rangeText(-b.length / 2 / mm, b.length / 2 / mm, "mm").substr(8));
   }
+  for (std::size_t i = 0; i < s.analysis.tracePoints.size(); ++i)
+    for (const auto& f : tracePointFields())
+      checkRange(f, s.analysis.tracePoints[i], "analysis.trace_points." + std::to_string(i) + ".");
 }
 
 Scenario scenarioFromJson(const json& doc) {
@@ -469,24 +551,12 @@ Scenario scenarioFromJson(const json& doc) {
       const std::string path = prefix.empty() ? it.key() : prefix + "." + it.key();
       if (path == "dwellmark_scenario") continue;
       if (path == "markings") {
-        if (!it->is_array()) throw ScenarioError(path, "expected an array of markings");
-        s.paint.markings.clear();
-        for (std::size_t i = 0; i < it->size(); ++i) {
-          const json& mj = (*it)[i];
-          const std::string mp = "markings." + std::to_string(i);
-          if (!mj.is_object()) throw ScenarioError(mp, "expected an object");
-          Marking m;
-          std::set<std::string> mseen;
-          for (auto mt = mj.begin(); mt != mj.end(); ++mt) {
-            const auto* f = findIn(markingFields(), mt.key());
-            if (!f) throw ScenarioError(mp + "." + mt.key(), "unknown key");
-            setFromJson(*f, m, *mt, mp + "." + mt.key());
-            mseen.insert(mt.key());
-          }
-          for (const auto& f : markingFields())
-            if (f.required && !mseen.count(f.path)) throw ScenarioError(mp + "." + f.path, "missing required field");
-          s.paint.markings.push_back(m);
-        }
+        s.paint.markings = itemsFromJson(*it, path, markingFields());
+        seen.insert(path);
+        continue;
+      }
+      if (path == "analysis.trace_points") {
+        s.analysis.tracePoints = itemsFromJson(*it, path, tracePointFields());
         seen.insert(path);
         continue;
       }
@@ -522,13 +592,8 @@ json scenarioToJson(const Scenario& s) {
     if (f.path == "body.wall_mm" && !isHollow(s.body.shape)) continue;
     atPath(doc, f.path) = fieldToJson(f, s);
   }
-  json marks = json::array();
-  for (const Marking& m : s.paint.markings) {
-    json mj = json::object();
-    for (const auto& f : markingFields()) mj[f.path] = fieldToJson(f, m);
-    marks.push_back(mj);
-  }
-  doc["markings"] = marks;
+  doc["markings"] = itemsToJson(s.paint.markings, markingFields());
+  atPath(doc, "analysis.trace_points") = itemsToJson(s.analysis.tracePoints, tracePointFields());
   return doc;
 }
 
@@ -552,14 +617,8 @@ void applyOverride(json& doc, const std::string& assignment) {
     throw ScenarioError("--set", "expected key.path=value, got \"" + assignment + "\"");
   const std::string path = assignment.substr(0, eq);
   const std::string value = assignment.substr(eq + 1);
-  if (path.rfind("markings.", 0) == 0) {
-    const auto dot = path.find('.', 9);
-    if (dot == std::string::npos) throw ScenarioError(path, "expected markings.INDEX.key");
-    const auto* f = findIn(markingFields(), path.substr(dot + 1));
-    if (!f) throw ScenarioError(path, "unknown key");
-    atPath(doc, path) = parseOverrideValue(*f, value, path);
-    return;
-  }
+  if (overrideItem(doc, path, value, "markings.", markingFields())) return;
+  if (overrideItem(doc, path, value, "analysis.trace_points.", tracePointFields())) return;
   const auto* f = findField(path);
   if (!f) throw ScenarioError(path, "unknown key");
   atPath(doc, path) = parseOverrideValue(*f, value, path);

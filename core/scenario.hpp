@@ -90,6 +90,23 @@ struct LightingSpec {
   double flickerDepth = 0.0;         ///< modulation depth (Michelson), 0..1
 };
 
+/// A point on one end's outer rim edge whose path and stops are traced, in
+/// addition to the points taken from the markings.
+struct TracePointSpec {
+  End end = End::A;     ///< which end's rim
+  double angle = 0;     ///< azimuth about the body axis from body x towards body y, rad
+  double size = 0.002;  ///< extent of the mark it stands for along the rim, m (sets its spot size)
+};
+
+/// How a run's traces, stops and spots are analysed.
+struct AnalysisSpec {
+  double window = 1.0;         ///< length of each spot-statistics window, s
+  double windowStep = 0.5;     ///< start-to-start spacing of the sliding windows, s
+  double dwellSpeed = 0.05;    ///< horizontal speed below which a mark counts as stopped, m/s
+  double eyeTime = 0.1;        ///< eye integration time that tells a creeping pattern from a ring, s
+  std::vector<TracePointSpec> tracePoints;  ///< extra rim points to trace
+};
+
 /// All inputs of a run, SI.
 struct Scenario {
   std::string name = "untitled";
@@ -102,6 +119,7 @@ struct Scenario {
   ContactSpec contact;
   ObserverSpec observer;
   LightingSpec lighting;
+  AnalysisSpec analysis;
 };
 
 /// The body's geometry and mass, derived from the scenario.
@@ -141,6 +159,8 @@ struct Field {
 const std::vector<Field<Scenario>>& scenarioFields();
 /// The table of fields of one marking (paths relative to the marking).
 const std::vector<Field<Marking>>& markingFields();
+/// The table of fields of one extra trace point (paths relative to the point).
+const std::vector<Field<TracePointSpec>>& tracePointFields();
 /// Finds a field by dotted path, or nullptr.
 const Field<Scenario>* findField(const std::string& path);
 
@@ -165,7 +185,8 @@ nlohmann::json readScenarioJson(const std::string& path);
 
 /// Applies `key.path=value` overrides to a scenario document before parsing.
 /// Numbers, true/false and quoted or bare strings are accepted; the path must
-/// name an existing field (markings by index: markings.0.colour).
+/// name an existing field (array items by index: markings.0.colour,
+/// analysis.trace_points.0.angle_deg).
 void applyOverride(nlohmann::json& doc, const std::string& assignment);
 
 /// sRGB "#rrggbb" <-> linear RGB (IEC 61966-2-1 transfer function).
