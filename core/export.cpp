@@ -98,6 +98,7 @@ nlohmann::json patternJson(const std::vector<PatternWindow>& windows) {
     j["revs_per_visit"] = w.revsPerVisit;
     j["pattern_drift_deg_s"] = w.patternDrift * degPerRad;
     j["spot_size_deg"] = w.spotSize * degPerRad;
+    j["spot_spread_deg"] = w.spotSpread * degPerRad;
     j["stop_count"] = w.stopCount;
     j["mean_tilt_deg"] = w.meanTilt * degPerRad;
     j["mean_precession_rev_s"] = w.meanPrecession / k::twoPi;

@@ -189,14 +189,15 @@ struct SeenStop {
   double radius = 0;   ///< horizontal distance from the centre, m
 };
 
-// The visible end's stopped marks (dwell > 0) in [t0, t1], one time-ordered
-// sequence per marked point.
+// The stops of the visible end's marks in [t0, t1], one time-ordered
+// sequence per marked point. Every passage over the top counts, however fast:
+// where the marks pass the top is the pattern; the dwell says how sharp it is.
 std::vector<std::vector<SeenStop>> seenStops(const std::vector<StopEvent>& stops, std::size_t pointCount, End visible,
                                              const Vec3& centre, double t0, double t1) {
   std::vector<std::vector<SeenStop>> seqs(pointCount);
   auto it = std::lower_bound(stops.begin(), stops.end(), t0, [](const StopEvent& s, double t) { return s.time < t; });
   for (; it != stops.end() && it->time <= t1; ++it) {
-    if (it->end != visible || it->dwell <= 0) continue;
+    if (it->end != visible) continue;
     const Vec3 d = it->position - centre;
     seqs[it->point].push_back({it->time, wrapAngle(std::atan2(d.y(), d.x())), std::hypot(d.x(), d.y())});
   }
@@ -217,20 +218,24 @@ double smallestSpotSize(const std::vector<std::vector<SeenStop>>& seqs, const st
   return smallest;
 }
 
-// How stops revisit their places: every `spots`-th stop of a mark lands
-// within the spot size of the earlier one, moving `shift` (rad) per visit,
-// with visits `period` seconds apart.
+// How stops revisit their places: every `spots`-th stop of a mark comes
+// back to the same place, moving `shift` (rad, mean) per visit with a
+// scatter `spread` (rad, one stop's), visits `period` seconds apart.
 struct Revisit {
   int spots = 0;
   double shift = 0;
+  double spread = 0;
   double period = 0;
 };
 
-// The fewest spots whose revisits land within the spot size (root mean
-// square over all revisits in the window); none when no count does. A count
-// is tried only if the spots fit round the circle with a spot size of gap
-// between them, and if the longest sequence can hit each of them twice (a
-// place hit once in a window is a flash, not a spot).
+// The fewest spots whose revisits come back to their own place (root mean
+// square over all revisits in the window): within the spot's own size, or,
+// for spots far apart, within an eighth of their spacing, so that a spot
+// blurred by nutation still counts as one (stops scattered that much fill
+// less than two fifths of the circle with +-2 sigma bands); none when no
+// count does. A count is tried only if the spots fit round the circle with a
+// spot size of gap between them, and if the longest sequence can hit each of
+// them twice (a place hit once in a window is a flash, not a spot).
 std::optional<Revisit> findRevisit(const std::vector<std::vector<SeenStop>>& seqs, double spotSize) {
   std::size_t longest = 0;
   for (const auto& seq : seqs) longest = std::max(longest, seq.size());
@@ -246,7 +251,11 @@ std::optional<Revisit> findRevisit(const std::vector<std::vector<SeenStop>>& seq
         sumPeriod += seq[i + p].time - seq[i].time;
         ++pairs;
       }
-    if (std::sqrt(sumSquare / pairs) < spotSize) return Revisit{p, sumShift / pairs, sumPeriod / pairs};
+    const double mean = sumShift / pairs, meanSquare = sumSquare / pairs;
+    if (std::sqrt(meanSquare) >= std::max(spotSize, k::twoPi / p / 8)) continue;
+    // A shift is the difference of two stops: its variance is twice a stop's.
+    const double spread = std::sqrt(std::max(0.0, meanSquare - mean * mean) / 2);
+    return Revisit{p, mean, spread, sumPeriod / pairs};
   }
   return std::nullopt;
 }
@@ -340,6 +349,7 @@ PatternWindow patternWindow(const Trajectory& tr, const std::vector<MarkedPoint>
     return w;
   }
   w.patternDrift = revisit->shift / revisit->period;
+  w.spotSpread = revisit->spread;
   std::vector<Spot> all;
   for (const auto& seq : seqs)
     for (const Spot& s : spotsOfSequence(seq, revisit->spots, w.patternDrift)) all.push_back(s);

@@ -3,11 +3,11 @@
 // passes the top and how long it stays (nearly) still there, and what
 // pattern of spots those stops make over sliding time windows.
 //
-// Stop positions are the measurement: a spot is a place where successive
-// stops of a mark keep landing. A rational N = p/q makes p spots, each
-// visited every q revolutions; a nearly rational N makes them creep; when no
-// small set of places repeats, or a spot moves further than its own size
-// within the eye's integration time, the stops wash out into a ring.
+// Stop positions are the measurement: a spot is a place where every p-th
+// stop of a mark comes back. A rational N = p/q makes p spots, each visited
+// every q revolutions; a nearly rational N makes them creep; when no small
+// set of places repeats, or a spot moves further than its own size within
+// the eye's integration time, the stops wash out into a ring.
 #pragma once
 #include <optional>
 #include <string>
@@ -84,7 +84,7 @@ enum class PatternKind {
   None,        ///< no raised end or too few stops to tell
   Stationary,  ///< spots that move less than their size over the window
   Creeping,    ///< spots that move more than their size over the window, less within the eye time
-  Ring,        ///< stops that never repeat a small set of places, or spots drifting their size within the eye time
+  Ring,        ///< stops that repeat no small set of places, or spots drifting their size within the eye time
 };
 std::string_view patternKindName(PatternKind k);
 
@@ -103,6 +103,7 @@ struct PatternWindow {
   int revsPerVisit = 0;               ///< revolutions between visits of one spot (0 without spots)
   double patternDrift = 0;            ///< mean drift of a spot from one visit to the next, rad/s
   double spotSize = 0;                ///< angular size of the smallest seen spot about the centre, rad
+  double spotSpread = 0;              ///< scatter of single stops about their spot's drifting place, rad (rms)
   int stopCount = 0;                  ///< stops of the visible end's marks in the window
   std::optional<double> spotsPerRev;  ///< mean N over the precessing samples
   double meanTilt = 0;                ///< rad

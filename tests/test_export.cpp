@@ -36,6 +36,7 @@ PatternAnalysis smallAnalysis() {
   w.revsPerVisit = 1;
   w.patternDrift = -2 * k::degree;
   w.spotSize = 6 * k::degree;
+  w.spotSpread = 1.5 * k::degree;
   w.stopCount = 12;
   w.spotsPerRev = 3.99;
   w.meanTilt = 1.5 * k::degree;
@@ -79,6 +80,7 @@ TEST_CASE("summary pattern windows carry the issue's keys in display units", "[e
   CHECK(w["kind"] == "creeping");
   CHECK(w["revs_per_visit"] == 1);
   CHECK(w["spot_size_deg"].get<double>() == Approx(6));
+  CHECK(w["spot_spread_deg"].get<double>() == Approx(1.5));
   CHECK(w["mean_tilt_deg"].get<double>() == Approx(1.5));
   CHECK(w["mean_precession_rev_s"].get<double>() == Approx(6));
   // A window with no raised end: nulls, empty lists, kind none.

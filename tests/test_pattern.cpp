@@ -8,6 +8,7 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <random>
 
 #include "core/constants.hpp"
 #include "core/kinematics.hpp"
@@ -363,4 +364,40 @@ TEST_CASE("windows slide by the step and stop at the end of the record", "[patte
   const Analysed shortRun = analyse(r, 0.3);
   REQUIRE(shortRun.windows.size() == 1);
   CHECK(shortRun.windows[0].end == Approx(0.3));
+}
+
+TEST_CASE("a four-spot pattern blurred by scatter still counts four spots; more scatter is a ring", "[pattern]") {
+  // Hand-made stops: a quarter turn apart, four per revolution at 6 rev/s,
+  // each thrown off its place by a scatter uniform in +-A (mt19937's output
+  // sequence is fixed by the C++ standard, so the test repeats exactly).
+  const Rolling r = rolling(5, 6, 4);
+  const Trajectory tr = record(r, 1.0);
+  const auto points = markedPoints(r.body, patchOnA(0), {});
+  auto scattered = [&](double amplitudeDeg) {
+    std::mt19937 random(7);
+    std::vector<StopEvent> stops;
+    for (int i = 0; i < 24; ++i) {
+      const double u = double(random()) / 4294967296.0;
+      const double az = (90.0 * i + amplitudeDeg * (2 * u - 1)) * k::degree;
+      StopEvent s;
+      s.time = (i + 0.5) / 24.0;
+      s.position = r.centre + 0.03 * Vec3(std::cos(az), std::sin(az), 0);
+      stops.push_back(s);
+    }
+    return patternWindows(tr, points, stops, {}).at(0);
+  };
+  // The spot: 24 deg of an 8 mm rim seen from 30 mm, 6.4 deg. A +-8 deg
+  // scatter (4.6 deg rms) makes revisits land about 6.5 deg off, beyond the
+  // spot but within an eighth of the 90 deg spacing: four blurred spots, not
+  // one spot moving a quarter turn per stop.
+  const PatternWindow blurred = scattered(8);
+  CHECK(degrees(blurred.spotSize) == Approx(0.008 * 24 / 0.03).epsilon(1e-9));
+  CHECK(blurred.spots.size() == 4);
+  // The reported spread is one stop's rms scatter, A / sqrt(3) for a
+  // uniform scatter, within the sampling error of 24 stops (about 20 %).
+  CHECK(degrees(blurred.spotSpread) == Approx(8 / std::sqrt(3.0)).epsilon(0.25));
+  // At +-25 deg (14 deg rms) no count of places repeats: a washed-out ring.
+  const PatternWindow washed = scattered(25);
+  CHECK(washed.kind == PatternKind::Ring);
+  CHECK(washed.spots.empty());
 }
