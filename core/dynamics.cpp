@@ -183,12 +183,11 @@ Params makeParams(const Scenario& s) {
   const double R = p.body.outerRadius, L = p.body.length;
   p.dragTransverse = k::airDensity * s.surface.airDrag * (2 * R * std::pow(L, 4) / 64 + 4 * std::pow(R, 5) / 15);
   // Contact: the body's mass on a spring of the chosen natural frequency; the
-  // damping ratio gives the chosen restitution for a linear spring-damper
-  // (zeta = -ln e / sqrt(pi^2 + ln^2 e)).
+  // damping ratio gives the chosen restitution to one contact point carrying
+  // the whole mass.
   const double m = p.inertia.mass;
   const double w = s.contact.frequency;
-  const double lnE = std::log(s.surface.restitution);
-  const double zeta = -lnE / std::sqrt(k::pi * k::pi + lnE * lnE);
+  const double zeta = dampingRatioForRestitution(s.surface.restitution);
   p.normalStiffness = m * w * w;
   p.normalDamping = 2 * zeta * m * w;
   // Tangential stick spring: 0.8 of the normal stiffness (Mindlin's ratio
@@ -208,6 +207,27 @@ void setInertia(Params& p, const Vec3& principal) {
   p.principal = principal;
   p.inversePrincipal = principal.cwiseInverse();
   p.inverseMass = 1.0 / p.inertia.mass;
+}
+
+double restitutionOfDampingRatio(double zeta) {
+  // x'' + 2 zeta w x' + w^2 x = 0 from x = 0, x' = v0 (underdamped); the contact lets go
+  // when the force k x + c x' reaches zero (it never pulls), at
+  // w_d t = pi - atan(2 zeta sqrt(1 - zeta^2) / (1 - 2 zeta^2)); e = -x'(t) / v0.
+  const double r = std::sqrt(1 - zeta * zeta);
+  const double phase = k::pi - std::atan2(2 * zeta * r, 1 - 2 * zeta * zeta);
+  const double decay = std::exp(-zeta / r * phase);
+  return -decay * (std::cos(phase) - zeta / r * std::sin(phase));
+}
+
+double dampingRatioForRestitution(double e) {
+  // e falls monotonically from 1 at zeta = 0 to 0.1355 at zeta = 0.999;
+  // bisect on that interval (stiffer damping is never needed: e >= 0.14).
+  double lo = 0, hi = 0.999;
+  for (int i = 0; i < 80; ++i) {
+    const double mid = 0.5 * (lo + hi);
+    (restitutionOfDampingRatio(mid) > e ? lo : hi) = mid;
+  }
+  return 0.5 * (lo + hi);
 }
 
 ContactReport contacts(const Params& p, const State& s) {

@@ -50,6 +50,13 @@ struct Params {
 
 /// Derives the run parameters (stiffness, damping, drag) from a scenario.
 Params makeParams(const Scenario& s);
+/// Coefficient of restitution of a linear spring-damper contact that never
+/// pulls, for damping ratio zeta in [0, 1/sqrt 2): the rebound speed over the
+/// impact speed when the contact force first returns to zero.
+double restitutionOfDampingRatio(double zeta);
+/// Its inverse: the damping ratio giving restitution e in (0, 1].
+double dampingRatioForRestitution(double e);
+
 /// Sets the principal moments (and their inverses) of `p`.
 void setInertia(Params& p, const Vec3& principal);
 

@@ -121,7 +121,7 @@ std::vector<Field<Scenario>> buildScenarioFields() {
                         "arm of the drilling (pivot) friction torque N * arm"));
   f.push_back(number<S>("surface.air_drag_coefficient", "-", 0, 3, 1,
                         [](S& s) -> double& { return s.surface.airDrag; }, "quadratic air drag coefficient C_d"));
-  f.push_back(number<S>("surface.restitution", "-", 0.05, 0.95, 1,
+  f.push_back(number<S>("surface.restitution", "-", 0.15, 0.95, 1,
                         [](S& s) -> double& { return s.surface.restitution; }, "normal coefficient of restitution"));
   f.push_back(colour<S>("surface.colour", [](S& s) -> Rgb& { return s.surface.colour; }, "table colour, sRGB hex"));
   f.push_back(number<S>("surface.grid_mm", "mm", 0, 100, mm, [](S& s) -> double& { return s.surface.gridSpacing; },
