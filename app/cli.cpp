@@ -19,6 +19,7 @@ int runCli(int argc, char** argv) {
   Commands commands;
   addSimulateCommand(app, commands);
   addParamsCommand(app, commands);
+  addEnsembleCommand(app, commands);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
