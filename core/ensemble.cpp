@@ -97,6 +97,14 @@ void analyseSpots(const Scenario& s, const RunResult& run, LaunchOutcome& out) {
     }
 }
 
+// End of the last rim-rolling span, s (0 when there is none).
+double spinTimeOf(const std::vector<PhaseSpan>& phases) {
+  double end = 0;
+  for (const PhaseSpan& p : phases)
+    if (p.phase == Phase::RollingA || p.phase == Phase::RollingB) end = p.end;
+  return end;
+}
+
 // ---- aggregates ---------------------------------------------------------------
 
 // Value at quantile q (0..1) of sorted values, linear between order statistics.
@@ -178,16 +186,18 @@ void spotHistograms(const std::vector<const LaunchOutcome*>& good, EnsembleSumma
 
 // Distributions of the times and extremes.
 void distributions(const std::vector<const LaunchOutcome*>& good, EnsembleSummary& e) {
-  std::vector<double> settle, show, rest, excursion, speed;
+  std::vector<double> settle, show, spin, rest, excursion, speed;
   for (const LaunchOutcome* o : good) {
     if (o->settleTime) settle.push_back(*o->settleTime);
     if (o->restTime) rest.push_back(*o->restTime);
     show.push_back(o->showTime);
+    spin.push_back(o->spinTime);
     excursion.push_back(o->maxExcursion);
     speed.push_back(o->maxSurfaceSpeed);
   }
   e.settleTime = percentilesOf(settle);
   e.showTime = percentilesOf(show);
+  e.spinTime = percentilesOf(spin);
   e.restTime = percentilesOf(rest);
   e.maxExcursion = percentilesOf(excursion);
   e.maxSurfaceSpeed = percentilesOf(speed);
@@ -269,6 +279,7 @@ LaunchOutcome runLaunch(const Scenario& s, std::uint64_t index, double duration)
   }
   out.settleTime = run.summary.settleTime;
   out.restTime = run.summary.restTime;
+  out.spinTime = spinTimeOf(run.summary.phases);
   out.maxExcursion = run.summary.maxExcursion;
   out.maxSurfaceSpeed = run.summary.maxSurfaceSpeed;
   checkTableEdge(run.params.body, run.trajectory, s.surface.tableRadius, out);

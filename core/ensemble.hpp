@@ -34,6 +34,7 @@ struct LaunchOutcome {
   std::optional<End> visibleEnd;
   std::optional<double> settleTime;    ///< s
   std::optional<double> restTime;      ///< s (none when still moving at the end of the run)
+  double spinTime = 0;                 ///< s, end of the last rim rolling: when it falls flat (0: never rolled on a rim)
   double showTime = 0;                 ///< s, time covered by pattern windows showing spots (stationary or creeping)
   std::optional<int> spotsAtSettle;    ///< spots of the first window starting at or after the settle time (0: none or a ring)
   std::vector<int> spotCounts;         ///< spots of each pattern window of the run (0: none or a ring)
@@ -85,7 +86,7 @@ struct EnsembleSummary {
   double windowLength = 0, windowStep = 0;  ///< s, the pattern windows of spotsOverTime
   std::vector<double> windowStarts;         ///< s
   std::vector<SpotHistogram> spotsOverTime;  ///< one per window start (a launch at rest counts 0 spots)
-  Percentiles settleTime, showTime, restTime;  ///< s (show over every launch; settle and rest over those that do)
+  Percentiles settleTime, showTime, spinTime, restTime;  ///< s (show and spin over every launch; settle and rest over those that do)
   Percentiles maxExcursion;                 ///< m
   Percentiles maxSurfaceSpeed;              ///< m/s
   TableCheck table;

@@ -77,13 +77,13 @@ std::string optionalCell(const std::optional<double>& v, double scale, int digit
 std::string launchesCsv(const EnsembleResult& r) {
   std::ostringstream o;
   o << "launch,pressed_end,revolution_rev_s,backspin,tilt_deg,drift_mm_s,visible_end,settle_time_s,show_s,"
-       "rest_time_s,spots_at_settle,max_excursion_mm,max_surface_speed_m_s,edge_time_s,edge_centre_height_mm,"
+       "spin_time_s,rest_time_s,spots_at_settle,max_excursion_mm,max_surface_speed_m_s,edge_time_s,edge_centre_height_mm,"
        "edge_centre_speed_mm_s,leaves_table,end_time_s,fault\n";
   for (const LaunchOutcome& l : r.outcomes) {
     o << l.index << ',' << endName(l.launch.pressedEnd) << ',' << fmt(l.launch.revolution / k::twoPi, 8) << ','
       << fmt(l.launch.backspin, 8) << ',' << fmt(l.launch.tilt / k::degree, 8) << ',' << fmt(l.launch.drift * 1e3, 8)
       << ',' << (l.visibleEnd ? std::string(endName(*l.visibleEnd)) : "") << ',' << optionalCell(l.settleTime, 1, 6)
-      << ',' << fmt(l.showTime, 6) << ',' << optionalCell(l.restTime, 1, 6) << ','
+      << ',' << fmt(l.showTime, 6) << ',' << fmt(l.spinTime, 6) << ',' << optionalCell(l.restTime, 1, 6) << ','
       << (l.spotsAtSettle ? std::to_string(*l.spotsAtSettle) : "") << ',' << fmt(l.maxExcursion * 1e3, 6) << ','
       << fmt(l.maxSurfaceSpeed, 6) << ',' << optionalCell(l.edgeTime, 1, 6) << ',';
     if (l.edgeTime) o << fmt(l.edgeCentreHeight * 1e3, 6) << ',' << fmt(l.edgeCentreSpeed * 1e3, 6);
@@ -116,6 +116,7 @@ json ensembleJson(const EnsembleResult& r) {
   j["spots_over_time"] = {{"window_s", finite(e.windowLength)}, {"window_step_s", finite(e.windowStep)}, {"windows", overTime}};
   j["settle_time_s"] = percentilesJson(e.settleTime, 1);
   j["show_s"] = percentilesJson(e.showTime, 1);
+  j["spin_time_s"] = percentilesJson(e.spinTime, 1);
   j["rest_time_s"] = percentilesJson(e.restTime, 1);
   j["max_excursion_mm"] = percentilesJson(e.maxExcursion, 1e3);
   j["max_surface_speed_m_s"] = percentilesJson(e.maxSurfaceSpeed, 1);

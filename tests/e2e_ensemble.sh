@@ -23,13 +23,13 @@ import csv, json, sys
 run = sys.argv[1]
 rows = list(csv.DictReader(open(run + "/launches.csv")))
 assert len(rows) == 6, len(rows)
-for key in ["launch", "pressed_end", "revolution_rev_s", "visible_end", "settle_time_s", "show_s", "rest_time_s",
+for key in ["launch", "pressed_end", "revolution_rev_s", "visible_end", "settle_time_s", "show_s", "spin_time_s", "rest_time_s",
             "spots_at_settle", "max_excursion_mm", "max_surface_speed_m_s", "leaves_table"]:
     assert key in rows[0], key
 e = json.load(open(run + "/ensemble.json"))
 assert e["launches"] == 6 and e["seed"] == 5 and e["duration_s"] == 2
 for key in ["visible_end_share", "pressed_end_visible_share", "spots_at_settle", "spots_over_time", "settle_time_s",
-            "show_s", "rest_time_s", "max_excursion_mm", "max_surface_speed_m_s", "table", "launch_spread"]:
+            "show_s", "spin_time_s", "rest_time_s", "max_excursion_mm", "max_surface_speed_m_s", "table", "launch_spread"]:
     assert key in e, key
 shares = e["visible_end_share"]
 assert abs(shares["A"] + shares["B"] + shares["none"] - 1) < 1e-12
