@@ -1,16 +1,12 @@
 #include "core/ensemble.hpp"
 
 #include <algorithm>
-#include <atomic>
 #include <cmath>
-#include <condition_variable>
-#include <exception>
-#include <mutex>
 #include <stdexcept>
-#include <thread>
 
 #include "core/constants.hpp"
 #include "core/launch_spread.hpp"
+#include "core/parallel.hpp"
 #include "core/pattern.hpp"
 #include "core/simulate.hpp"
 
@@ -95,14 +91,6 @@ void analyseSpots(const Scenario& s, const RunResult& run, LaunchOutcome& out) {
       out.spotsAtSettle = spotsShown(w);
       return;
     }
-}
-
-// End of the last rim-rolling span, s (0 when there is none).
-double spinTimeOf(const std::vector<PhaseSpan>& phases) {
-  double end = 0;
-  for (const PhaseSpan& p : phases)
-    if (p.phase == Phase::RollingA || p.phase == Phase::RollingB) end = p.end;
-  return end;
 }
 
 // ---- aggregates ---------------------------------------------------------------
@@ -203,54 +191,29 @@ void distributions(const std::vector<const LaunchOutcome*>& good, EnsembleSummar
   e.maxSurfaceSpeed = percentilesOf(speed);
 }
 
-// Runs `total` launches on `threads` workers; each stores its outcome at its index.
+// Runs `total` launches; each stores its outcome at its index.
 std::vector<LaunchOutcome> runLaunches(const Scenario& s, std::uint64_t seed, double duration, int total, int threads,
                                        const std::function<void(int, int)>& progress) {
   std::vector<LaunchOutcome> outcomes(static_cast<std::size_t>(total));
-  std::atomic<int> next{0};
-  int done = 0;
-  std::mutex mutex;
-  std::condition_variable finished;
-  std::exception_ptr failure;
-  auto worker = [&] {
-    for (int i = next++; i < total; i = next++) {
-      try {
+  parallelFor(
+      total, threads,
+      [&](int i) {
         Scenario one = s;
         one.launch = drawLaunch(s.launch, s.launchSpread, seed, std::uint64_t(i));
         outcomes[std::size_t(i)] = runLaunch(one, std::uint64_t(i), duration);
-      } catch (...) {
-        std::lock_guard<std::mutex> lock(mutex);
-        if (!failure) failure = std::current_exception();
-        next = total;  // the others stop after their current launch
-      }
-      {
-        std::lock_guard<std::mutex> lock(mutex);
-        ++done;
-      }
-      finished.notify_one();
-    }
-  };
-  std::vector<std::thread> pool;
-  for (int t = 0; t < threads; ++t) pool.emplace_back(worker);
-  // Report progress from this thread while the workers run.
-  {
-    std::unique_lock<std::mutex> lock(mutex);
-    for (int reported = 0; reported < total && !failure;) {
-      finished.wait(lock, [&] { return done > reported || failure; });
-      reported = done;
-      if (progress && !failure) {
-        lock.unlock();
-        progress(reported, total);
-        lock.lock();
-      }
-    }
-  }
-  for (std::thread& t : pool) t.join();
-  if (failure) std::rethrow_exception(failure);
+      },
+      progress);
   return outcomes;
 }
 
 }  // namespace
+
+double spinTimeOf(const std::vector<PhaseSpan>& phases) {
+  double end = 0;
+  for (const PhaseSpan& p : phases)
+    if (p.phase == Phase::RollingA || p.phase == Phase::RollingB) end = p.end;
+  return end;
+}
 
 Percentiles percentilesOf(std::vector<double> values) {
   Percentiles p;
@@ -315,9 +278,8 @@ EnsembleResult runEnsemble(const Scenario& s, const EnsembleOptions& options) {
   r.seed = options.seed.value_or(s.launch.seed);
   r.duration = options.duration.value_or(s.run.duration);
   r.spread = s.launchSpread;
-  const int hardware = int(std::max(1u, std::thread::hardware_concurrency()));
-  const int threads = std::min(options.threads > 0 ? options.threads : hardware, options.launches);
-  r.outcomes = runLaunches(s, r.seed, r.duration, options.launches, threads, options.progress);
+  r.outcomes = runLaunches(s, r.seed, r.duration, options.launches, workerCount(options.threads, options.launches),
+                           options.progress);
   r.summary = summariseEnsemble(s, r.outcomes, r.duration);
   return r;
 }

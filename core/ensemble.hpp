@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "core/scenario.hpp"
+#include "core/simulate.hpp"
 
 namespace dm {
 
@@ -100,6 +101,10 @@ struct EnsembleResult {
   std::vector<LaunchOutcome> outcomes;  ///< in launch order
   EnsembleSummary summary;
 };
+
+/// End of the last rim-rolling span of a run's phases, s: when the body
+/// falls flat or stands (0 when it never rolled on a rim).
+double spinTimeOf(const std::vector<PhaseSpan>& phases);
 
 /// Simulates and analyses one launch of `s` (the launch already drawn into
 /// s.launch); `index` is recorded.
