@@ -20,6 +20,7 @@ int runCli(int argc, char** argv) {
   addSimulateCommand(app, commands);
   addParamsCommand(app, commands);
   addEnsembleCommand(app, commands);
+  addCalibrateCommand(app, commands);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -28,6 +28,7 @@ struct Commands {
 void addSimulateCommand(CLI::App& app, Commands& commands);
 void addParamsCommand(CLI::App& app, Commands& commands);
 void addEnsembleCommand(CLI::App& app, Commands& commands);
+void addCalibrateCommand(CLI::App& app, Commands& commands);
 
 /// The scenario field table as Markdown (the README's parameter table).
 std::string parameterTableMarkdown();
