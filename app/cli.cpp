@@ -12,15 +12,18 @@ Scenario loadScenarioWithOverrides(const std::string& path, const std::vector<st
   return scenarioFromJson(doc);
 }
 
-int runCli(int argc, char** argv) {
+int runCli(int argc, char** argv, GuiRunner gui) {
   CLI::App app{"dwellmark: predicts what visitors see when they spin a marked tube, rod, ring or coin on a table"};
   app.set_version_flag("--version", std::string(DWELLMARK_VERSION));
   app.require_subcommand(1);
   Commands commands;
   addSimulateCommand(app, commands);
+  addSteadyCommand(app, commands);
+  addAdviseCommand(app, commands);
   addParamsCommand(app, commands);
   addEnsembleCommand(app, commands);
   addCalibrateCommand(app, commands);
+  addGuiCommand(app, commands, std::move(gui));
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

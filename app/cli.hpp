@@ -30,14 +30,36 @@ void addParamsCommand(CLI::App& app, Commands& commands);
 void addEnsembleCommand(CLI::App& app, Commands& commands);
 void addCalibrateCommand(CLI::App& app, Commands& commands);
 
+/// `steady`: the analytic steady spin at a precession rate or a tilt (app/cmd_steady.cpp).
+void addSteadyCommand(CLI::App& app, Commands& commands);
+/// `advise`: the dimension advisor (app/cmd_advise.cpp).
+void addAdviseCommand(CLI::App& app, Commands& commands);
+
 /// The scenario field table as Markdown (the README's parameter table).
 std::string parameterTableMarkdown();
+
+/// What `dwellmark gui` was asked for.
+struct GuiOptions {
+  Scenario scenario;             ///< the validated scenario to open
+  std::string scenarioPath;      ///< its file ("" for the built-in default)
+  std::string screenshotPath;    ///< write a PNG of the whole window after `frames` frames, then exit
+  int frames = 0;                ///< frames to render before exiting (0 = interactive)
+  int width = 1280, height = 800;  ///< window size, px
+  std::string frameLogPath;      ///< per-frame timing CSV written on exit ("" = none)
+};
+/// Opens the GUI; returns the process exit code. Empty in builds without a GUI.
+using GuiRunner = std::function<int(const GuiOptions&)>;
+
+/// Registers `dwellmark gui`. With an empty runner the command still exists
+/// and says that this build has no GUI.
+void addGuiCommand(CLI::App& app, Commands& commands, GuiRunner runner);
 
 /// Reads a scenario file, applies `--set key.path=value` overrides, parses
 /// and validates it (throws ScenarioError).
 Scenario loadScenarioWithOverrides(const std::string& path, const std::vector<std::string>& sets);
 
-/// Parses the command line and runs the chosen subcommand.
-int runCli(int argc, char** argv);
+/// Parses the command line and runs the chosen subcommand; `gui` is the
+/// GUI's entry point when this build has one.
+int runCli(int argc, char** argv, GuiRunner gui = {});
 
 }  // namespace dm::app

@@ -46,6 +46,7 @@ std::string parameterTableMarkdown() {
   const Scenario d = defaultScenario();
   printRows(o, scenarioFields(), "", d);
   printRows(o, markingFields(), "markings[].", d.paint.markings.front());
+  printRows(o, tracePointFields(), "analysis.trace_points[].", TracePointSpec{});
   return o.str();
 }
 

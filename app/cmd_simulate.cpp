@@ -1,5 +1,6 @@
 // dwellmark simulate: one headless run, writing trajectory.csv, traces.csv,
 // stops.csv and summary.json (with the spot pattern per time window).
+#include <algorithm>
 #include <iostream>
 
 #include "app/cli.hpp"
@@ -48,7 +49,13 @@ int runSimulate(const SimulateArgs& a) {
   std::cout << "  settle time: " << (r.summary.settleTime ? fmt(*r.summary.settleTime, 4) + " s" : "never settled")
             << ", raised end: " << (r.summary.raisedEnd ? std::string(endName(*r.summary.raisedEnd)) : "none")
             << ", rest time: " << (r.summary.restTime ? fmt(*r.summary.restTime, 4) + " s" : "still moving") << "\n";
-  if (!pattern.windows.empty()) std::cout << "  last pattern window " << patternSentence(pattern.windows.back()) << "\n";
+  // The last window with an end raised: the pattern a visitor saw last.
+  const auto seen = std::find_if(pattern.windows.rbegin(), pattern.windows.rend(),
+                                 [](const PatternWindow& w) { return w.visibleEnd.has_value(); });
+  if (seen != pattern.windows.rend())
+    std::cout << "  last pattern " << patternSentence(*seen) << "\n";
+  else
+    std::cout << "  no end raised in any pattern window\n";
   for (const char* name : {"trajectory.csv", "traces.csv", "stops.csv", "summary.json"})
     std::cout << "wrote " << dir << name << "\n";
   return exitOk;

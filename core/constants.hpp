@@ -29,4 +29,9 @@ inline constexpr double runawaySpeed = 100.0;
 /// Sustained rolling must last this long (s) to count as settled.
 inline constexpr double settleHold = 0.5;
 
+/// Shortest eye-mode integration window, s: the eye's temporal impulse
+/// response (Watson 1986, render/temporal.hpp) has delivered all but 1e-4 of
+/// its area by then, so the window's weights sum to one.
+inline constexpr double minEyeWindow = 0.15;
+
 }  // namespace dm::k

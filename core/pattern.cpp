@@ -33,6 +33,7 @@ void addMarkingPoints(const Cylinder& c, const Marking& m, std::size_t index, st
   switch (m.kind) {
     case MarkingKind::RimPatch: {
       const double span = patchSpan(m);
+      if (span == 0) return;  // paints a single azimuth: nothing to see
       out.push_back(rimMark(name + "_" + std::string(endName(m.end)), c, m.end, m.fromAngle + span / 2,
                             c.outerRadius * span));
       return;
@@ -82,7 +83,7 @@ bool crossesTop(double a, double b) {
   return (a < 0 && b >= 0) || (a > 0 && b <= 0);
 }
 
-// Bisection steps: a 1e-4 s step shrinks below 1e-13 s.
+// Bisection steps: the default 1/3 ms step shrinks to 3e-13 s.
 constexpr int bisections = 30;
 
 // Time in [a, b] at which the point passes the top; `angleA` is its angle at a.
@@ -239,7 +240,7 @@ struct Revisit {
 std::optional<Revisit> findRevisit(const std::vector<std::vector<SeenStop>>& seqs, double spotSize) {
   std::size_t longest = 0;
   for (const auto& seq : seqs) longest = std::max(longest, seq.size());
-  const int maxSpots = std::min(int(k::pi / spotSize), int(longest / 2));
+  const int maxSpots = int(std::min(k::pi / spotSize, double(longest / 2)));
   for (int p = 1; p <= maxSpots; ++p) {
     double sumShift = 0, sumSquare = 0, sumPeriod = 0;
     int pairs = 0;
@@ -340,9 +341,13 @@ PatternWindow patternWindow(const Trajectory& tr, const std::vector<MarkedPoint>
   w.meanPrecession = means.precession;
   if (!w.visibleEnd) return w;
   const auto seqs = seenStops(stops, points.size(), *w.visibleEnd, means.centre, t0, t1);
-  for (const auto& seq : seqs) w.stopCount += int(seq.size());
+  std::size_t longest = 0;
+  for (const auto& seq : seqs) {
+    w.stopCount += int(seq.size());
+    longest = std::max(longest, seq.size());
+  }
   w.spotSize = smallestSpotSize(seqs, points);
-  if (w.stopCount < 2) return w;
+  if (longest < 2) return w;  // no mark stopped twice: nothing to tell
   const std::optional<Revisit> revisit = findRevisit(seqs, w.spotSize);
   if (!revisit) {
     w.kind = PatternKind::Ring;

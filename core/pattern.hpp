@@ -60,6 +60,8 @@ struct Traces {
   std::vector<std::vector<Vec3>> points;  ///< points[j][i]: marked point j at time[i], lab, m
 };
 
+/// The traces of a run every `interval` seconds (snapped to whole samples
+/// of the trajectory, as trajectory.csv is).
 Traces traceRun(const Trajectory& trajectory, const Cylinder& body, const std::vector<MarkedPoint>& points,
                 double interval);
 
@@ -81,7 +83,7 @@ std::vector<StopEvent> stopEvents(const Trajectory& trajectory, const std::vecto
 
 /// What an eye makes of a window's stops.
 enum class PatternKind {
-  None,        ///< no raised end or too few stops to tell
+  None,        ///< no raised end, or no mark of it stopped twice in the window
   Stationary,  ///< spots that move less than their size over the window
   Creeping,    ///< spots that move more than their size over the window, less within the eye time
   Ring,        ///< stops that repeat no small set of places, or spots drifting their size within the eye time

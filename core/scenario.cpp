@@ -299,6 +299,23 @@ std::vector<Field<Scenario>> buildScenarioFields() {
   }
   f.push_back(number<S>("observer.spot_threshold", "-", 0.001, 1, 1,
                         [](S& s) -> double& { return s.observer.spotThreshold; }, "Weber contrast a spot must exceed"));
+  f.push_back(number<S>("observer.steady_precession_rev_s", "rev/s", 0, 100, revS,
+                        [](S& s) -> double& { return s.observer.steadyPrecession; },
+                        "above 0: show the exact steady spin at this precession (pressed end raised) instead of the run"));
+  f.push_back(number<S>("observer.frame_rate_hz", "Hz", 0, 1000, 1, [](S& s) -> double& { return s.observer.frameRate; },
+                        "camera video frame rate; 0 for a single exposure"));
+  {
+    Field<S> frames;
+    frames.path = "observer.frame_count";
+    frames.type = FieldType::Integer;
+    frames.unit = "-";
+    frames.min = 1;
+    frames.max = 600;
+    frames.help = "camera video: number of frames, each observer.exposure_s long and 1/frame_rate apart";
+    frames.getNumber = [](const S& s) { return double(s.observer.frameCount); };
+    frames.setNumber = [](S& s, double v) { s.observer.frameCount = int(v); };
+    f.push_back(frames);
+  }
   // lighting
   f.push_back(number<S>("lighting.ambient", "-", 0, 1, 1, [](S& s) -> double& { return s.lighting.ambient; },
                         "ambient light level"));
@@ -535,6 +552,21 @@ bool overrideItem(json& doc, const std::string& path, const std::string& value, 
   return true;
 }
 
+// Cross-field rules of the observer: the eye's window must hold its whole
+// temporal response, and a video frame cannot expose longer than the frame
+// interval.
+void validateObserver(const ObserverSpec& o) {
+  if (o.mode == ExposureMode::Eye && o.exposure < k::minEyeWindow)
+    throw ScenarioError("observer.exposure_s", "value " + describe(o.exposure) + " s is too short for observer.mode eye; "
+                                               "allowed " + describe(k::minEyeWindow) + " to 10 s (the eye's response lasts about that long)");
+  if (o.frameCount > 1 && (o.frameRate <= 0 || o.mode != ExposureMode::Camera))
+    throw ScenarioError("observer.frame_count", "value " + std::to_string(o.frameCount) +
+                                                    " needs observer.mode camera and observer.frame_rate_hz above 0; allowed 1 otherwise");
+  if (o.frameRate > 0 && o.exposure > 1.0 / o.frameRate)
+    throw ScenarioError("observer.exposure_s", "value " + describe(o.exposure) + " s is longer than one frame at " +
+                                                   describe(o.frameRate) + " Hz; allowed 0.001 to " + describe(1.0 / o.frameRate) + " s");
+}
+
 }  // namespace
 
 const std::vector<Field<Scenario>>& scenarioFields() {
@@ -607,6 +639,7 @@ void validate(const Scenario& s) {
                                             " us step, longer than a twentieth of the contact period (" +
                                             describe(longest * 1e6) + " us); allowed at least " +
                                             describe(std::ceil(s.run.sampleInterval / longest)));
+  validateObserver(s.observer);
   validateLaunchSpread(s);
   for (std::size_t i = 0; i < s.paint.markings.size(); ++i) {
     const Marking& m = s.paint.markings[i];

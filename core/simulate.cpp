@@ -71,6 +71,19 @@ std::vector<PhaseSpan> phaseSpans(const Trajectory& t, double minSpan) {
   return merged;
 }
 
+Sample sampleOf(const Params& p, const State& s, const ContactReport& c) {
+  Sample sample;
+  sample.t = s.t;
+  sample.position = s.position;
+  sample.orientation = s.orientation;
+  sample.velocity = s.velocity;
+  sample.spin = s.spinWorld();
+  sample.phase = classify(p, s, c);
+  sample.slip = float(c.maxSlip());
+  sample.normal = float(c.totalNormal());
+  return sample;
+}
+
 RunResult simulateFrom(const Params& p, const State& initial, double duration, double sampleInterval,
                        End pressedEnd, const SimulateOptions& options) {
   RunResult result;
@@ -84,15 +97,7 @@ RunResult simulateFrom(const Params& p, const State& initial, double duration, d
     // Stage 1 of the step doubles as the record of the current state.
     State before = s;
     const ContactReport c = n < steps ? step(p, s) : contacts(p, s);
-    Sample sample;
-    sample.t = before.t;
-    sample.position = before.position;
-    sample.orientation = before.orientation;
-    sample.velocity = before.velocity;
-    sample.spin = before.spinWorld();
-    sample.phase = classify(p, before, c);
-    sample.slip = float(c.maxSlip());
-    sample.normal = float(c.totalNormal());
+    const Sample sample = sampleOf(p, before, c);
     result.trajectory.samples.push_back(sample);
     if (n % rowEvery == 0) result.energyAt.push_back(energy(p, before, c));
     if (options.progress && n % 20000 == 0) options.progress(double(n) / double(std::max(1L, steps)));

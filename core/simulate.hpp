@@ -52,6 +52,10 @@ struct SimulateOptions {
   std::function<void(double)> progress;    ///< called now and then with the fraction done
 };
 
+/// The trajectory record of state `s`, given the contact report of that
+/// same state (what step() returns for the state it started from).
+Sample sampleOf(const Params& p, const State& s, const ContactReport& c);
+
 /// Simulates a validated scenario from its launch.
 RunResult simulate(const Scenario& s, const SimulateOptions& options = {});
 /// Simulates from a given initial state.

@@ -1,4 +1,6 @@
 // The scenario file: one field table, validation with named fields, round trips.
+#include <optional>
+
 #include <catch2/catch.hpp>
 
 #include "core/colour.hpp"
@@ -12,24 +14,26 @@ namespace {
 
 json demoDoc() { return readScenarioJson(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json"); }
 
-// The field named by the error a broken document raises ("" if none).
-std::string refusedField(const json& doc) {
+// The error a broken document raises, if any.
+std::optional<ScenarioError> refusalOf(const json& doc) {
   try {
     scenarioFromJson(doc);
   } catch (const ScenarioError& e) {
-    return e.field();
+    return e;
   }
-  return "";
+  return std::nullopt;
 }
 
-// The ScenarioError message of parsing `doc`, or "" if it parses.
+// The field named by the error a broken document raises ("" if none).
+std::string refusedField(const json& doc) {
+  const auto e = refusalOf(doc);
+  return e ? e->field() : "";
+}
+
+// The whole message of the error a broken document raises ("" if none).
 std::string refusal(const json& doc) {
-  try {
-    scenarioFromJson(doc);
-  } catch (const ScenarioError& e) {
-    return e.what();
-  }
-  return "";
+  const auto e = refusalOf(doc);
+  return e ? e->what() : "";
 }
 
 }  // namespace
@@ -151,10 +155,8 @@ TEST_CASE("sRGB transfer matches IEC 61966-2-1", "[scenario][colour]") {
   for (double v : {0.0, 0.01, 0.2, 0.7, 1.0}) CHECK(linearToSrgb(srgbToLinear(v)) == Approx(v).margin(1e-12));
 }
 
-// Scenario fields of the pattern analysis: the analysis section and the
-// extra trace points go through the one field table like every other input.
 TEST_CASE("analysis fields default to a 1 s window every 0.5 s and read in file units", "[scenario]") {
-  nlohmann::json doc = demoDoc();
+  json doc = demoDoc();
   CHECK(scenarioFromJson(doc).analysis.window == 1.0);
   CHECK(scenarioFromJson(doc).analysis.windowStep == 0.5);
   doc["analysis"] = {{"window_s", 2.0}, {"window_step_s", 0.25}, {"dwell_speed_mm_s", 20.0}, {"eye_time_ms", 50.0}};
@@ -166,7 +168,7 @@ TEST_CASE("analysis fields default to a 1 s window every 0.5 s and read in file 
 }
 
 TEST_CASE("trace points parse, round-trip and are range-checked by name", "[scenario]") {
-  nlohmann::json doc = demoDoc();
+  json doc = demoDoc();
   doc["analysis"]["trace_points"] = {{{"end", "B"}, {"angle_deg", 90.0}, {"size_mm", 1.5}}, {{"end", "A"}, {"angle_deg", -30.0}}};
   const Scenario s = scenarioFromJson(doc);
   REQUIRE(s.analysis.tracePoints.size() == 2);
@@ -179,7 +181,7 @@ TEST_CASE("trace points parse, round-trip and are range-checked by name", "[scen
   REQUIRE(again.analysis.tracePoints.size() == 2);
   CHECK(again.analysis.tracePoints[1].angle == Approx(-30 * k::degree));
 
-  nlohmann::json bad = doc;
+  json bad = doc;
   bad["analysis"]["trace_points"][1]["angle_deg"] = 400.0;
   CHECK(refusal(bad) == "analysis.trace_points.1.angle_deg: value 400 is out of range; allowed -360 to 360 deg");
   bad = doc;
@@ -194,7 +196,7 @@ TEST_CASE("trace points parse, round-trip and are range-checked by name", "[scen
 }
 
 TEST_CASE("overrides (--set) reach analysis fields and trace point items", "[scenario]") {
-  nlohmann::json doc = demoDoc();
+  json doc = demoDoc();
   doc["analysis"]["trace_points"] = {{{"end", "A"}, {"angle_deg", 0.0}}};
   applyOverride(doc, "analysis.trace_points.0.angle_deg=45");
   applyOverride(doc, "analysis.eye_time_ms=80");

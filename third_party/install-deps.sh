@@ -13,7 +13,7 @@ packages=(
   libpng-dev libstb-dev
   # GUI: window, GL loader, UI, maths
   libglfw3-dev libepoxy-dev libimgui-dev libglm-dev
-  libegl-dev libegl1-mesa-dev libgl1-mesa-dri mesa-utils
+  libegl-dev libegl1-mesa-dev libgl1-mesa-dri mesa-utils fonts-dejavu-core
   # tests, benchmarks, headless display, report checks
   catch2 libbenchmark-dev xvfb xauth tidy
   # sanitiser and fuzzing stage

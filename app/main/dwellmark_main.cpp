@@ -1,3 +1,13 @@
 #include "app/cli.hpp"
 
-int main(int argc, char** argv) { return dm::app::runCli(argc, argv); }
+#ifdef DWELLMARK_HAVE_GUI
+#include "app/gui/gui.hpp"
+#endif
+
+int main(int argc, char** argv) {
+#ifdef DWELLMARK_HAVE_GUI
+  return dm::app::runCli(argc, argv, dm::gui::runGui);
+#else
+  return dm::app::runCli(argc, argv);
+#endif
+}

@@ -1,0 +1,293 @@
+#include "core/steady.hpp"
+
+#include <algorithm>
+#include <array>
+#include <limits>
+#include <stdexcept>
+
+#include "core/io.hpp"
+#include "core/roots.hpp"
+
+namespace dm {
+
+// The equations (physics.md section 3, derived again here). Raised axis a at
+// tilt alpha, d the unit vector in the end plane pointing up
+// (z = sin(alpha) a + cos(alpha) d), e = a x d horizontal. The contact P is
+// the lowest rim point of the lower end, P - c = -(L/2) a - R d; the top Q of
+// the raised end is c - (P - c).
+//  - Kinematics. w = Omega z + psi_dot a = (Omega sin + psi_dot) a + Omega cos d.
+//    The centre is at rest and P rolls, so w x (P - c) = 0: w is parallel
+//    to (L/2) a + R d, which gives psi_dot / Omega = (L/D) cos - sin, the
+//    axial component w_a = Omega (L/D) cos, and Q at rest too.
+//  - Torque balance. The frame (a, d, e) turns at Omega about z, so
+//    dH/dt = Omega z x H with H = I_a w_a a + I_t Omega cos d. With
+//    z x a = -cos e and z x d = sin e:
+//      dH/dt = Omega cos (I_t Omega sin - I_a w_a) e.
+//    The normal force m g z at P (no horizontal force: the centre is at
+//    rest) has the torque (P - c) x m g z = -m g ((L/2) cos - R sin) e.
+//    Equating: Omega^2 cos (I_a (L/D) cos - I_t sin) = m g ((L/2) cos - R sin).
+//  - Both sides carry m, so everything below uses inertias per unit mass.
+//  - Branches. The right side changes sign only at tan = L/D (centre right
+//    above the contact), the bracket on the left only at
+//    tan = I_a L / (I_t D); Omega^2 > 0 below both (the rolling, pattern
+//    branch) and above both (the standing branch, up to 90 deg).
+//  - Monotony. With t = tan alpha, Omega^2 = g sec(alpha) (L/2 - R t) /
+//    (I_a L/D - I_t t); the fraction's t-derivative has the sign of
+//    (L/2) (I_t - I_a). So when I_t > I_a (L^2 > 3 (R^2 + r^2): every tube
+//    and rod) the rolling branch rises from Omega_min at alpha = 0 to
+//    infinity: one pattern root above Omega_min, none below. Squatter
+//    bodies may have several rolling roots; the roots are therefore found
+//    by sampling, never assumed unique.
+//  - Limits. alpha -> 0: Omega^2 = g (L/2) / (I_a L / D) = g R / I_a.
+//    Thin disk (L -> 0, r = 0, I_a = R^2/2, I_t = R^2/4): both bounds go to
+//    0 and Omega^2 = g R tan / (I_t tan cos) = 4 g / (R cos alpha)
+//    = 4 g / (R sin theta), theta = 90 deg - alpha (Moffatt, Nature 404,
+//    833, 2000). Thin hoop (L -> 0, r -> R, I_a = R^2, I_t = R^2/2):
+//    Omega^2 = 2 g / (R sin theta).
+
+namespace {
+
+struct Geometry {
+  double L, R, N0;  // length, outer radius, aspect ratio L/D
+  double ia, it;    // axial and transverse inertia per unit mass, m^2
+};
+
+Geometry geometryOf(const Cylinder& c) {
+  checkSteadyGeometry(c);
+  Cylinder unit = c;
+  unit.mass = 1;
+  const MassProperties p = massProperties(unit);
+  return {c.length, c.outerRadius, c.length / (2 * c.outerRadius), p.axial, p.transverse};
+}
+
+// Torque balance residual per unit mass, m^2/s^2: zero in a steady state.
+double residual(const Geometry& G, double omega2, double a, double g) {
+  const double ca = std::cos(a), sa = std::sin(a);
+  return omega2 * ca * (G.ia * G.N0 * ca - G.it * sa) - g * (G.L / 2 * ca - G.R * sa);
+}
+
+SteadyTiltLimits limitsOf(const Geometry& G) {
+  const double balance = std::atan(G.N0);             // centre above the contact
+  const double gyro = std::atan2(G.ia * G.N0, G.it);  // gyroscopic bracket zero
+  return {std::min(balance, gyro), std::max(balance, gyro)};
+}
+
+SteadySpin stateAt(const Geometry& G, double a, double omega, bool pattern) {
+  SteadySpin s;
+  const double ca = std::cos(a), sa = std::sin(a);
+  s.tilt = a;
+  s.precession = omega;
+  s.spotsPerRev = G.N0 * ca - sa;
+  s.relativeSpin = omega * s.spotsPerRev;
+  s.centreHeight = G.L / 2 * sa + G.R * ca;
+  s.ceilingHeight = 2 * s.centreHeight;
+  s.contactRadius = std::abs(G.L / 2 * ca - G.R * sa);
+  s.nearestSpots = int(std::lround(std::abs(s.spotsPerRev)));
+  if (s.nearestSpots > 0) {
+    s.driftDegPerRev = patternDriftDegPerRev(s.spotsPerRev, s.nearestSpots);
+    s.driftDegPerSecond = s.driftDegPerRev * omega / k::twoPi;
+  } else {
+    s.driftDegPerRev = s.driftDegPerSecond = std::numeric_limits<double>::quiet_NaN();
+  }
+  s.pattern = pattern;
+  return s;
+}
+
+// Samples per branch interval when bracketing roots: the residual is a
+// smooth trigonometric function with at most a few roots per interval, so
+// 256 samples (a third of a degree apart at most) separate them; touching
+// roots between samples are caught by the minimum search below.
+constexpr int rootSamples = 256;
+
+// Every root of f in [lo, hi], ascending: sign changes on a uniform grid,
+// each refined by Brent to full double precision, plus roots where f only
+// touches zero between samples (a local minimum of |f| without a sign
+// change, searched by golden section; a pair when it crosses).
+template <class F>
+std::vector<double> rootsIn(F&& f, double lo, double hi) {
+  std::vector<double> roots;
+  if (!(hi > lo)) return roots;
+  std::array<double, rootSamples + 1> x{}, v{};
+  for (int i = 0; i <= rootSamples; ++i) {
+    x[i] = i == rootSamples ? hi : lo + (hi - lo) * i / rootSamples;
+    v[i] = f(x[i]);
+  }
+  for (int i = 0; i < rootSamples; ++i) {
+    if (v[i] == 0) {
+      roots.push_back(x[i]);
+    } else if (v[i + 1] != 0 && (v[i] > 0) != (v[i + 1] > 0)) {
+      roots.push_back(numeric::brentRoot(f, x[i], x[i + 1], v[i], v[i + 1]));
+    }
+  }
+  if (v[rootSamples] == 0) roots.push_back(x[rootSamples]);
+  for (int i = 1; i < rootSamples; ++i) {
+    const bool sameSign =
+        (v[i - 1] > 0) == (v[i] > 0) && (v[i] > 0) == (v[i + 1] > 0) && v[i] != 0 && v[i - 1] != 0 && v[i + 1] != 0;
+    if (!sameSign || !(std::abs(v[i]) < std::abs(v[i - 1]) && std::abs(v[i]) <= std::abs(v[i + 1]))) continue;
+    const double sign = v[i] > 0 ? 1.0 : -1.0;
+    const auto [xm, fm] = numeric::goldenMinimum([&](double t) { return sign * f(t); }, x[i - 1], x[i + 1]);
+    if (fm > 0) continue;
+    if (fm == 0) {
+      roots.push_back(xm);
+      continue;
+    }
+    const double fx = sign * fm;
+    roots.push_back(numeric::brentRoot(f, x[i - 1], xm, v[i - 1], fx));
+    roots.push_back(numeric::brentRoot(f, xm, x[i + 1], fx, v[i + 1]));
+  }
+  std::sort(roots.begin(), roots.end());
+  roots.erase(std::unique(roots.begin(), roots.end()), roots.end());
+  return roots;
+}
+
+std::string revS(double omega) { return fmt(omega / k::twoPi, 4) + " rev/s"; }
+std::string degText(double a) { return fmt(a / k::degree, 4) + " deg"; }
+
+// Why the rolling branch has no root at this precession.
+std::string noPatternAtPrecession(const Geometry& G, double omega, double omegaMin) {
+  if (omega == 0) return "a precession of 0 is no spin: there is no steady spin";
+  if (G.it >= G.ia && omega < omegaMin)
+    return "precession " + revS(omega) + " is below the lowest that keeps the end up, " + revS(omegaMin) +
+           " for this diameter and wall";
+  if (G.it < G.ia && omega > omegaMin)
+    return "precession " + revS(omega) + " is above " + revS(omegaMin) +
+           ": a body this short (axial inertia above transverse) rolls steadily on its rim only below that";
+  return "no rolling steady state at precession " + revS(omega);
+}
+
+}  // namespace
+
+std::string InputRange::allowedText() const {
+  std::string text = "allowed " + fmt(min, 10) + " to " + fmt(max, 10);
+  if (unit != "-") text.append(" ").append(unit);
+  return text;
+}
+
+const SteadySpin* SteadySolution::pattern() const {
+  for (const SteadySpin& s : branches)
+    if (s.pattern) return &s;
+  return nullptr;
+}
+
+void checkSteadyGeometry(const Cylinder& c) {
+  const bool ok = std::isfinite(c.length) && std::isfinite(c.outerRadius) && std::isfinite(c.innerRadius) &&
+                  c.length > 0 && c.outerRadius > 0 && c.innerRadius >= 0 && c.innerRadius < c.outerRadius;
+  if (!ok)
+    throw std::invalid_argument("not a cylinder: length " + std::to_string(c.length) + " m, outer radius " +
+                                std::to_string(c.outerRadius) + " m, inner radius " + std::to_string(c.innerRadius) +
+                                " m; need length > 0 and 0 <= inner < outer radius");
+}
+
+double patternDriftDegPerRev(double spotsPerRev, int spots) { return -(std::abs(spotsPerRev) - spots) * 360.0 / spots; }
+
+double minSteadyPrecession(const Cylinder& c, double g) {
+  const Geometry G = geometryOf(c);
+  return std::sqrt(g * G.R / G.ia);
+}
+
+bool squatBody(const Cylinder& c) {
+  const Geometry G = geometryOf(c);
+  return G.it < G.ia;
+}
+
+SteadyTiltLimits steadyTiltLimits(const Cylinder& c) { return limitsOf(geometryOf(c)); }
+
+PatternResult patternAtPrecession(const Cylinder& c, double omega, double g) {
+  if (!(omega >= 0) || !std::isfinite(omega))
+    throw std::invalid_argument("precession must be finite and >= 0 rad/s, got " + std::to_string(omega));
+  const Geometry G = geometryOf(c);
+  PatternResult r;
+  if (omega == 0) return r;
+  const double omega2 = omega * omega;
+  const auto roots = rootsIn([&](double a) { return residual(G, omega2, a, g); }, 0.0, limitsOf(G).patternMax);
+  if (roots.empty()) return r;
+  r.found = true;
+  r.spin = stateAt(G, roots.front(), omega, true);
+  return r;
+}
+
+SteadySolution steadyAtPrecession(const Cylinder& c, double omega, double g) {
+  const PatternResult p = patternAtPrecession(c, omega, g);  // checks the inputs
+  const Geometry G = geometryOf(c);
+  SteadySolution s;
+  s.minPrecession = std::sqrt(g * G.R / G.ia);
+  if (omega == 0) {
+    s.reason = noPatternAtPrecession(G, omega, s.minPrecession);
+    return s;
+  }
+  const double omega2 = omega * omega;
+  const auto f = [&](double a) { return residual(G, omega2, a, g); };
+  const SteadyTiltLimits lim = limitsOf(G);
+  // Further rolling roots (only possible for squat bodies), then the standing ones.
+  for (double a : rootsIn(f, 0.0, lim.patternMax))
+    if (!p.found || a != p.spin.tilt) s.branches.push_back(stateAt(G, a, omega, false));
+  for (double a : rootsIn(f, lim.standingMin, k::pi / 2))
+    if (a < k::pi / 2 && (s.branches.empty() || a != s.branches.back().tilt))
+      s.branches.push_back(stateAt(G, a, omega, false));
+  if (p.found) s.branches.push_back(p.spin);
+  std::sort(s.branches.begin(), s.branches.end(),
+            [](const SteadySpin& x, const SteadySpin& y) { return x.tilt < y.tilt; });
+  if (!p.found) s.reason = noPatternAtPrecession(G, omega, s.minPrecession);
+  return s;
+}
+
+SteadySolution steadyAtTilt(const Cylinder& c, double tilt, double g) {
+  if (!(tilt >= 0 && tilt <= k::pi / 2))
+    throw std::invalid_argument("tilt must be within 0 to pi/2 rad, got " + std::to_string(tilt));
+  const Geometry G = geometryOf(c);
+  const SteadyTiltLimits lim = limitsOf(G);
+  SteadySolution s;
+  s.minPrecession = std::sqrt(g * G.R / G.ia);
+  if (tilt >= k::pi / 2) {
+    s.reason = "standing upright (tilt 90 deg) would need an infinite precession";
+    return s;
+  }
+  if (tilt >= lim.patternMax && tilt <= lim.standingMin) {
+    s.reason = "no steady spin at tilt " + degText(tilt) + ": from " + degText(lim.patternMax) + " to " +
+               degText(lim.standingMin) + " the gravity torque and the gyroscopic torque cannot balance";
+    return s;
+  }
+  // Closed form: Omega^2 = g ((L/2) cos - R sin) / (cos (I_a (L/D) cos - I_t sin)).
+  const double ca = std::cos(tilt), sa = std::sin(tilt);
+  const double omega2 = g * (G.L / 2 * ca - G.R * sa) / (ca * (G.ia * G.N0 * ca - G.it * sa));
+  if (!(omega2 > 0) || !std::isfinite(omega2)) {
+    s.reason = "no steady spin at tilt " + degText(tilt);
+    return s;
+  }
+  const bool pattern = tilt < lim.patternMax;
+  s.branches.push_back(stateAt(G, tilt, std::sqrt(omega2), pattern));
+  if (!pattern)
+    s.reason = "tilt " + degText(tilt) + " is on the standing branch (above " + degText(lim.standingMin) +
+               "): a steady state nearly on end, not the pattern state";
+  return s;
+}
+
+// ---- the prescribed motion ------------------------------------------------
+
+Vec3 SteadyMotion::raisedAxisAt(double t) const {
+  const double phi = azimuth0 + spin.precession * t;
+  const double ca = std::cos(spin.tilt);
+  return {ca * std::cos(phi), ca * std::sin(phi), std::sin(spin.tilt)};
+}
+
+Pose SteadyMotion::poseAt(double t) const {
+  using AA = Eigen::AngleAxisd;
+  const double phi = azimuth0 + spin.precession * t;
+  const double roll = roll0 + spin.relativeSpin * t;
+  // Body z to the raised axis: tip it down from vertical by 90 deg - tilt
+  // towards +x, then turn it to its azimuth; end B first turns body z over.
+  // The roll about body z is signed so that it turns about the raised axis.
+  const Quat flip = raised == End::B ? Quat(AA(k::pi, Vec3::UnitX())) : Quat::Identity();
+  Pose p;
+  p.worldFromBody = Quat(AA(phi, Vec3::UnitZ())) * Quat(AA(k::pi / 2 - spin.tilt, Vec3::UnitY())) * flip *
+                    Quat(AA(endSign(raised) * roll, Vec3::UnitZ()));
+  p.worldFromBody.normalize();
+  p.position = Vec3(centre.x(), centre.y(), spin.centreHeight);
+  return p;
+}
+
+Vec3 SteadyMotion::spinAt(double t) const {
+  return spin.precession * Vec3::UnitZ() + spin.relativeSpin * raisedAxisAt(t);
+}
+
+}  // namespace dm

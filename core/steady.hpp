@@ -1,0 +1,145 @@
+// The steady spin with a fixed centre (physics.md sections 3 and 4): the
+// state a well-launched tube settles into and the one that paints the spots.
+// The centre is at rest, the lower end's rim rolls on the table and the top
+// of the raised end is at rest too. Given the geometry and the precession
+// rate (or the tilt) the solver finds the other and everything a designer
+// reads off it: relative spin, spots per revolution, the floor contact
+// circle, the imaginary ceiling, the pattern's drift and the lowest
+// precession that keeps the end up. The mass cancels: only the geometry and
+// g matter.
+#pragma once
+#include <cmath>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "core/body.hpp"
+#include "core/constants.hpp"
+#include "core/vec.hpp"
+
+namespace dm {
+
+/// The valid range of one user-facing input, in the unit the user types
+/// (CLI flags, GUI fields), inclusive at both ends. The ranges of the steady
+/// and advisor inputs live here and in core/advise.hpp, nowhere else.
+struct InputRange {
+  std::string_view name;  ///< what the value is, e.g. "precession"
+  std::string_view unit;  ///< the unit typed, e.g. "rev/s"; "-" when dimensionless
+  double min = 0, max = 0;
+  bool contains(double v) const { return std::isfinite(v) && v >= min && v <= max; }
+  /// "allowed 0 to 100 rev/s"
+  std::string allowedText() const;
+};
+
+namespace steady_input {
+/// Precession rate of the axis, rev/s. Zero is allowed (the answer is "no
+/// steady spin"); the top leaves room above the launch table's 50 rev/s.
+inline constexpr InputRange precession{"precession", "rev/s", 0, 100};
+/// Tilt of the raised axis above the horizontal, degrees.
+inline constexpr InputRange tilt{"tilt", "deg", 0, 90};
+/// Step of a precession sweep, rev/s: a ten-thousandth of a revolution per
+/// second is finer than any table a designer reads.
+inline constexpr InputRange sweepStep{"sweep step", "rev/s", 1e-4, 100};
+/// Most rows a sweep prints (a 0..100 rev/s sweep at 1e-3 rev/s steps).
+inline constexpr int maxSweepRows = 100001;
+}  // namespace steady_input
+
+/// One steady state. Angles in radians, rates in rad/s, lengths in metres.
+struct SteadySpin {
+  double tilt = 0;            ///< raised axis above the horizontal, rad (0..pi/2)
+  double precession = 0;      ///< Omega, azimuth rate of the raised axis, rad/s, > 0
+  double relativeSpin = 0;    ///< psi_dot = Omega ((L/D) cos a - sin a), rad/s
+  double spotsPerRev = 0;     ///< N = relativeSpin / precession (negative on the standing branch)
+  double contactRadius = 0;   ///< radius of the floor contact circle |(L/2) cos a - R sin a|, m
+  double ceilingHeight = 0;   ///< height of the imaginary ceiling the raised end's top touches, 2 z_c, m
+  double centreHeight = 0;    ///< z_c = (L/2) sin a + R cos a, m
+  /// Drift of the nearestSpots-spot pattern, degrees of azimuth per
+  /// precession revolution, + in the direction of precession (NaN when
+  /// nearestSpots is 0: fewer than half a spot per revolution).
+  double driftDegPerRev = 0;
+  double driftDegPerSecond = 0;  ///< the same per second, deg/s (NaN when nearestSpots is 0)
+  int nearestSpots = 0;          ///< n, the whole number nearest |N|
+  bool pattern = false;          ///< true for the pattern state (the low-tilt rolling branch)
+};
+
+/// Every steady state at one input, lowest tilt first.
+struct SteadySolution {
+  std::vector<SteadySpin> branches;
+  double minPrecession = 0;  ///< minSteadyPrecession() of the body, rad/s
+  std::string reason;        ///< why there is no pattern state; empty when there is one
+  /// The pattern state, or nullptr when none exists.
+  const SteadySpin* pattern() const;
+};
+
+/// Every steady state at precession `precession` (rad/s, >= 0; 0 gives none).
+/// Throws std::invalid_argument for a negative or non-finite precession or a
+/// body that is not a cylinder (see checkSteadyGeometry).
+SteadySolution steadyAtPrecession(const Cylinder& c, double precession, double g = k::gravity);
+
+/// The steady state at tilt `tilt` (rad, 0..pi/2), if any: the precession
+/// follows in closed form. Throws std::invalid_argument outside 0..pi/2.
+SteadySolution steadyAtTilt(const Cylinder& c, double tilt, double g = k::gravity);
+
+/// The pattern state alone at one precession (rad/s): exactly the pattern()
+/// of steadyAtPrecession, without the search of the standing branch.
+/// `spin.pattern` is false and `found` false when there is none.
+struct PatternResult {
+  bool found = false;
+  SteadySpin spin;
+};
+PatternResult patternAtPrecession(const Cylinder& c, double precession, double g = k::gravity);
+
+/// Omega_min = sqrt(m g R / I_a) = sqrt(2 g R / (R^2 + r^2)), rad/s: the
+/// tilt -> 0 limit of the pattern branch. For a body longer than
+/// sqrt(3 (R^2 + r^2)) (I_t > I_a: every tube and rod) it is the lowest
+/// precession that keeps the end up; for a squatter body (I_t < I_a) the
+/// rolling branch exists only below it.
+double minSteadyPrecession(const Cylinder& c, double g = k::gravity);
+
+/// True when I_t < I_a (L^2 < 3 (R^2 + r^2)): a body this squat rolls
+/// steadily on its rim only below minSteadyPrecession().
+bool squatBody(const Cylinder& c);
+
+/// The tilts that bound the branches, rad: the rolling (pattern) branch lies
+/// in [0, patternMax), the standing branch in (standingMin, pi/2); between
+/// them the gravity and gyroscopic torques cannot balance.
+/// patternMax = min(atan(L/D), atan(I_a L / (I_t D))), standingMin the max.
+struct SteadyTiltLimits {
+  double patternMax = 0;
+  double standingMin = 0;
+};
+SteadyTiltLimits steadyTiltLimits(const Cylinder& c);
+
+/// Drift of an n-spot pattern, degrees of azimuth per precession
+/// revolution, when the mark comes to the top |N| times per revolution:
+/// -(|N| - n) 360 / n (physics.md section 4). Exact, not only for small
+/// |N| - n: stops fall 360/|N| degrees apart, so every n stops a spot moves
+/// by n 360/|N| - 360 degrees, and n stops take n/|N| revolutions. n >= 1.
+double patternDriftDegPerRev(double spotsPerRev, int spots);
+
+/// Throws std::invalid_argument unless 0 < L, 0 < R, 0 <= r < R, all finite.
+void checkSteadyGeometry(const Cylinder& c);
+
+/// The exact prescribed steady motion. The centre stays at (centre.x,
+/// centre.y, spin.centreHeight); the raised axis (from the centre towards
+/// the raised end: body +z for end A, body -z for end B) stands at
+/// spin.tilt above the horizontal with azimuth azimuth0 + Omega t; the body
+/// turns about its own axis by roll0 + relativeSpin t. The angular velocity
+/// is w = Omega z + relativeSpin a_raised, the convention of axisMotion()
+/// in core/kinematics.cpp.
+struct SteadyMotion {
+  Cylinder body;
+  SteadySpin spin;
+  End raised = End::A;
+  Vec3 centre = Vec3::Zero();  ///< only x and y are used, m
+  double azimuth0 = 0;         ///< azimuth of the raised axis at t = 0, rad
+  double roll0 = 0;            ///< roll about the axis at t = 0, rad
+  /// Pose at time t (s).
+  Pose poseAt(double t) const;
+  /// Angular velocity in the lab frame at time t (s), rad/s.
+  Vec3 spinAt(double t) const;
+  /// Unit raised axis at time t.
+  Vec3 raisedAxisAt(double t) const;
+};
+
+}  // namespace dm
