@@ -18,6 +18,7 @@ int runCli(int argc, char** argv, GuiRunner gui) {
   app.require_subcommand(1);
   Commands commands;
   addSimulateCommand(app, commands);
+  addExposeCommand(app, commands);
   addSteadyCommand(app, commands);
   addAdviseCommand(app, commands);
   addParamsCommand(app, commands);

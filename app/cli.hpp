@@ -26,6 +26,8 @@ struct Commands {
 };
 
 void addSimulateCommand(CLI::App& app, Commands& commands);
+/// `expose`: the observer camera's image and spot report (app/cmd_expose.cpp).
+void addExposeCommand(CLI::App& app, Commands& commands);
 void addParamsCommand(CLI::App& app, Commands& commands);
 void addEnsembleCommand(CLI::App& app, Commands& commands);
 void addCalibrateCommand(CLI::App& app, Commands& commands);

@@ -30,8 +30,8 @@ inline constexpr double runawaySpeed = 100.0;
 inline constexpr double settleHold = 0.5;
 
 /// Shortest eye-mode integration window, s: the eye's temporal impulse
-/// response (Watson 1986, render/temporal.hpp) has delivered all but 1e-4 of
-/// its area by then, so the window's weights sum to one.
-inline constexpr double minEyeWindow = 0.15;
+/// response (Watson 1986, render/temporal.hpp) has delivered all
+/// its area by then (all but 5e-5), so the window's weights sum to one.
+inline constexpr double minEyeWindow = 0.2;
 
 }  // namespace dm::k

@@ -48,6 +48,21 @@ Field<T> number(std::string path, std::string unit, double min, double max, doub
   return f;
 }
 
+// A whole number stored at `ref`, in the same unit in files and in memory.
+template <class T>
+Field<T> integer(std::string path, std::string unit, double min, double max, int& (*ref)(T&), std::string help) {
+  Field<T> f;
+  f.path = std::move(path);
+  f.type = FieldType::Integer;
+  f.unit = std::move(unit);
+  f.min = min;
+  f.max = max;
+  f.help = std::move(help);
+  f.getNumber = [ref](const T& s) { return double(ref(const_cast<T&>(s))); };
+  f.setNumber = [ref](T& s, double v) { ref(s) = int(v); };
+  return f;
+}
+
 template <class T>
 Field<T> text(std::string path, FieldType type, std::vector<std::string> choices,
               std::function<std::string(const T&)> get, std::function<void(T&, const std::string&)> set,
@@ -285,18 +300,8 @@ std::vector<Field<Scenario>> buildScenarioFields() {
                         [](S& s) -> double& { return s.observer.fieldOfView; }, "visitor view field of view"));
   f.push_back(number<S>("observer.view_span_mm", "mm", 10, 2000, mm,
                         [](S& s) -> double& { return s.observer.viewSpan; }, "top view: width of the table region shown"));
-  {
-    Field<S> size;
-    size.path = "observer.image_size_px";
-    size.type = FieldType::Integer;
-    size.unit = "px";
-    size.min = 16;
-    size.max = 4096;
-    size.help = "image width and height";
-    size.getNumber = [](const S& s) { return double(s.observer.imageSize); };
-    size.setNumber = [](S& s, double v) { s.observer.imageSize = int(v); };
-    f.push_back(size);
-  }
+  f.push_back(integer<S>("observer.image_size_px", "px", 16, 4096, [](S& s) -> int& { return s.observer.imageSize; },
+                         "image width and height"));
   f.push_back(number<S>("observer.spot_threshold", "-", 0.001, 1, 1,
                         [](S& s) -> double& { return s.observer.spotThreshold; }, "Weber contrast a spot must exceed"));
   f.push_back(number<S>("observer.steady_precession_rev_s", "rev/s", 0, 100, revS,
@@ -304,18 +309,8 @@ std::vector<Field<Scenario>> buildScenarioFields() {
                         "above 0: show the exact steady spin at this precession (pressed end raised) instead of the run"));
   f.push_back(number<S>("observer.frame_rate_hz", "Hz", 0, 1000, 1, [](S& s) -> double& { return s.observer.frameRate; },
                         "camera video frame rate; 0 for a single exposure"));
-  {
-    Field<S> frames;
-    frames.path = "observer.frame_count";
-    frames.type = FieldType::Integer;
-    frames.unit = "-";
-    frames.min = 1;
-    frames.max = 600;
-    frames.help = "camera video: number of frames, each observer.exposure_s long and 1/frame_rate apart";
-    frames.getNumber = [](const S& s) { return double(s.observer.frameCount); };
-    frames.setNumber = [](S& s, double v) { s.observer.frameCount = int(v); };
-    f.push_back(frames);
-  }
+  f.push_back(integer<S>("observer.frame_count", "-", 1, 600, [](S& s) -> int& { return s.observer.frameCount; },
+                         "camera video: number of frames, each observer.exposure_s long and 1/frame_rate apart"));
   // lighting
   f.push_back(number<S>("lighting.ambient", "-", 0, 1, 1, [](S& s) -> double& { return s.lighting.ambient; },
                         "ambient light level"));

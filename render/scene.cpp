@@ -31,6 +31,24 @@ DirectionTerms::DirectionTerms(const Vec3& d)
     : across(d.x() * d.x() + d.y() * d.y()), invAcross(across > 0 ? 1.0 / across : 0.0),
       invZ(d.z() != 0.0 ? 1.0 / d.z() : 0.0) {}
 
+namespace {
+
+// A hit at ray parameter t on a cylindrical wall of `radius` (1/radius
+// given), its normal pointing away from the axis (`outward` +1) or towards it (-1).
+bool wallHit(const Vec3& o, const Vec3& d, double t, SurfacePart part, double radius, double invRadius, double outward,
+             BodyHit& hit) {
+  hit.t = t;
+  hit.part = part;
+  hit.point = o + t * d;
+  hit.radius = radius;
+  hit.dirX = hit.point.x() * invRadius;
+  hit.dirY = hit.point.y() * invRadius;
+  hit.normal = Vec3(outward * hit.dirX, outward * hit.dirY, 0);
+  return true;
+}
+
+}  // namespace
+
 bool intersectBody(const BodyShape& s, const Vec3& o, const Vec3& d, const DirectionTerms& terms, BodyHit& hit) {
   constexpr double inf = std::numeric_limits<double>::infinity();
   // The infinite outer cylinder along the ray (tested first: most misses end here).
@@ -59,16 +77,7 @@ bool intersectBody(const BodyShape& s, const Vec3& o, const Vec3& d, const Direc
   const double enter = std::max(cylIn, slabIn), leave = std::min(cylOut, slabOut);
   if (!(enter < leave) || enter <= 0) return false;
   // Entering through the outer surface.
-  if (cylIn >= slabIn) {
-    hit.t = cylIn;
-    hit.part = SurfacePart::Outer;
-    hit.point = o + cylIn * d;
-    hit.radius = s.outer;
-    hit.dirX = hit.point.x() * s.invOuter;
-    hit.dirY = hit.point.y() * s.invOuter;
-    hit.normal = Vec3(hit.dirX, hit.dirY, 0);
-    return true;
-  }
+  if (cylIn >= slabIn) return wallHit(o, d, cylIn, SurfacePart::Outer, s.outer, s.invOuter, 1.0, hit);
   // Entering through an end plane: the face annulus, or the bore's opening.
   const bool throughA = d.z() < 0;
   Vec3 p = o + slabIn * d;
@@ -90,14 +99,7 @@ bool intersectBody(const BodyShape& s, const Vec3& o, const Vec3& d, const Direc
   const double discInner = std::max(0.0, b * b - a * (rho2 - s.inner2));
   const double wall = (-b + std::sqrt(discInner)) * invA;
   if (!(wall < slabOut)) return false;
-  hit.t = wall;
-  hit.part = SurfacePart::Bore;
-  hit.point = o + wall * d;
-  hit.radius = s.inner;
-  hit.dirX = hit.point.x() * s.invInner;
-  hit.dirY = hit.point.y() * s.invInner;
-  hit.normal = Vec3(-hit.dirX, -hit.dirY, 0);
-  return true;
+  return wallHit(o, d, wall, SurfacePart::Bore, s.inner, s.invInner, -1.0, hit);
 }
 
 bool intersectBody(const Cylinder& c, const Vec3& o, const Vec3& d, BodyHit& hit) {
@@ -190,7 +192,7 @@ namespace {
 // Fraction of [x - w/2, x + w/2] covered by lines of width `line` centred
 // on the multiples of `spacing` (a box filter over the pixel's footprint).
 double lineCoverage(double x, double w, double spacing, double line) {
-  // Covered length of [-inf... , x] measured from a line's left edge, per period.
+  // Covered length of the lines up to v, counted from a fixed origin (differences are what matter).
   auto cumulative = [&](double v) {
     const double shifted = v + line / 2;
     const double periods = std::floor(shifted / spacing);

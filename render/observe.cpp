@@ -1,0 +1,134 @@
+#include "render/observe.hpp"
+
+#include <cmath>
+#include <stdexcept>
+
+#include "core/colour.hpp"
+#include "core/constants.hpp"
+#include "core/kinematics.hpp"
+
+namespace dm {
+
+Observation observeSteady(const Scenario& s) {
+  const Cylinder body = cylinderOf(s.body);
+  const double precession = s.observer.steadyPrecession;
+  const PatternResult pattern = patternAtPrecession(body, precession);
+  if (!pattern.found)
+    throw ScenarioError("observer.steady_precession_rev_s",
+                        "value " + std::to_string(precession / k::twoPi) +
+                            " rev/s has no steady rolling state for this body; the lowest is " +
+                            std::to_string(minSteadyPrecession(body) / k::twoPi) + " rev/s");
+  SteadyMotion motion;
+  motion.body = body;
+  motion.spin = pattern.spin;
+  motion.raised = s.launch.pressedEnd;
+  Observation seen;
+  seen.poses = [motion](double t) { return motion.poseAt(t); };
+  // By symmetry the top point Q sits as far from the centre's vertical as
+  // the contact point, at the ceiling height.
+  seen.ring.centre = Vec3(motion.centre.x(), motion.centre.y(), pattern.spin.ceilingHeight);
+  seen.ring.radius = pattern.spin.contactRadius;
+  seen.visibleEnd = motion.raised;
+  seen.steady = pattern.spin;
+  return seen;
+}
+
+Observation observeRun(const Scenario& s, std::shared_ptr<const RunResult> run, double start, double end) {
+  Observation seen;
+  const Trajectory& trajectory = run->trajectory;
+  seen.poses = [run](double t) { return run->trajectory.poseAt(t); };
+  // The raised end at mid-window, if the body is rolling on a rim then.
+  const double mid = 0.5 * (start + end);
+  const std::size_t i = trajectory.indexAt(mid);
+  const Phase phase = trajectory.empty() ? Phase::AtRest : trajectory.samples[i].phase;
+  const Cylinder body = cylinderOf(s.body);
+  if (phase == Phase::RollingA || phase == Phase::RollingB || phase == Phase::Sliding) {
+    const AxisMotion axis = axisMotion(trajectory.poseAt(mid).worldFromBody, trajectory.spinAt(mid));
+    seen.visibleEnd = axis.raisedEnd;
+    seen.ring = ringOfRun(trajectory, body, axis.raisedEnd, start, end);
+  } else {
+    const Pose pose = trajectory.poseAt(mid);
+    seen.ring.centre = pose.position;
+    seen.ring.radius = 0;
+  }
+  seen.run = std::move(run);
+  return seen;
+}
+
+double observedUntil(const ObserverSpec& o) {
+  const double frames = o.frameCount > 1 ? double(o.frameCount - 1) / o.frameRate : 0.0;
+  return o.start + frames + o.exposure;
+}
+
+ExposureResult exposeObservation(const Scenario& s, const Observation& seen, double start, int threads) {
+  ExposureResult r;
+  r.start = start;
+  r.camera = cameraOf(s.observer, seen.ring.centre);
+  ExposureOptions options;
+  options.timing.mode = s.observer.mode;
+  options.timing.start = start;
+  options.timing.duration = s.observer.exposure;
+  options.timing.flicker = flickerOf(s.lighting);
+  options.threads = threads;
+  options.seed = s.launch.seed;
+  r.exposure = expose(sceneOf(s), r.camera, seen.poses, options);
+  r.spots.ring = seen.ring;
+  r.spots.threshold = s.observer.spotThreshold;
+  if (seen.visibleEnd && seen.ring.radius > 0) r.spots = findSpots(r.exposure.plain, r.camera, seen.ring, s.observer.spotThreshold);
+  return r;
+}
+
+namespace {
+
+double finite(double v) {
+  if (!std::isfinite(v)) throw std::domain_error("a non-finite number reached spots.json");
+  return v;
+}
+
+}  // namespace
+
+nlohmann::json spotsJson(const Scenario& s, const Observation& seen, const ExposureResult& r) {
+  using json = nlohmann::json;
+  json spots = json::array();
+  for (const Spot& spot : r.spots.spots)
+    spots.push_back({{"azimuth_deg", finite(spot.azimuth / k::degree)},
+                     {"radius_mm", finite(spot.radius * 1e3)},
+                     {"contrast", finite(spot.contrast)},
+                     {"width_deg", finite(spot.width / k::degree)},
+                     {"colour", hexFromRgb(spot.colour)}});
+  const ExposureStats& st = r.exposure.stats;
+  json doc = {{"spot_count", r.spots.spots.size()},
+              {"spots", spots},
+              {"visible_end", seen.visibleEnd ? json(std::string(endName(*seen.visibleEnd))) : json(nullptr)},
+              {"ring_radius_mm", finite(seen.ring.radius * 1e3)},
+              {"ring_centre_mm", {finite(seen.ring.centre.x() * 1e3), finite(seen.ring.centre.y() * 1e3), finite(seen.ring.centre.z() * 1e3)}},
+              {"ring_median_luminance", finite(r.spots.medianLuminance)},
+              {"strongest_contrast", finite(r.spots.strongestContrast)},
+              {"threshold", finite(r.spots.threshold)},
+              {"start_s", finite(r.start)},
+              {"exposure_s", finite(s.observer.exposure)},
+              {"mode", s.observer.mode == ExposureMode::Eye ? "eye" : "camera"},
+              {"view", s.observer.view == ViewKind::Top ? "top" : "visitor"},
+              {"image_size_px", s.observer.imageSize},
+              {"sampling",
+               {{"strata", st.strata},
+                {"weighted_strata", st.weightedStrata},
+                {"largest_step_px", finite(st.largestStepPx)},
+                {"fastest_image_speed_px_s", finite(st.fastestImageSpeed)},
+                {"interpolation_error_px", finite(st.interpolationErrorPx)},
+                {"pixel_samples", st.pixelSamples},
+                {"body_samples", st.bodySamples}}}};
+  if (s.observer.view == ViewKind::Visitor) {
+    doc["eye_height_mm"] = finite(s.observer.eyeHeight * 1e3);
+    doc["eye_distance_mm"] = finite(s.observer.eyeDistance * 1e3);
+    doc["eye_azimuth_deg"] = finite(s.observer.eyeAzimuth / k::degree);
+  }
+  if (seen.steady) {
+    doc["steady_precession_rev_s"] = finite(seen.steady->precession / k::twoPi);
+    doc["steady_tilt_deg"] = finite(seen.steady->tilt / k::degree);
+    doc["spots_per_rev"] = finite(seen.steady->spotsPerRev);
+  }
+  return doc;
+}
+
+}  // namespace dm

@@ -1,0 +1,231 @@
+#include "render/spots.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+#include "core/constants.hpp"
+#include "core/markings.hpp"
+
+namespace dm {
+
+Vec3 topPoint(const Cylinder& body, const Pose& pose, End raised) {
+  const Vec3 axis = endSign(raised) * pose.axis();
+  Vec3 upInPlane = Vec3::UnitZ() - axis.z() * axis;
+  upInPlane = upInPlane.norm() > 1e-12 ? Vec3(upInPlane.normalized()) : Vec3::Zero();
+  return pose.position + body.length / 2 * axis + body.outerRadius * upInPlane;
+}
+
+Ring ringOfRun(const Trajectory& trajectory, const Cylinder& body, End raised, double t0, double t1, int samples) {
+  // Kasa fit: minimise sum (x^2 + y^2 + D x + E y + F)^2, a linear least-squares problem.
+  Eigen::Matrix3d normal = Eigen::Matrix3d::Zero();
+  Eigen::Vector3d rhs = Eigen::Vector3d::Zero();
+  double height = 0;
+  for (int i = 0; i < samples; ++i) {
+    const double t = t0 + (t1 - t0) * (i + 0.5) / samples;
+    const Vec3 q = topPoint(body, trajectory.poseAt(t), raised);
+    const Eigen::Vector3d row(q.x(), q.y(), 1.0);
+    normal += row * row.transpose();
+    rhs += row * -(q.x() * q.x() + q.y() * q.y());
+    height += q.z() / samples;
+  }
+  const Eigen::Vector3d def = normal.ldlt().solve(rhs);
+  Ring ring;
+  ring.centre = Vec3(-def.x() / 2, -def.y() / 2, height);
+  ring.radius = std::sqrt(std::max(0.0, ring.centre.x() * ring.centre.x() + ring.centre.y() * ring.centre.y() - def.z()));
+  return ring;
+}
+
+double luminance(const Rgb& c) { return 0.2126 * c.r + 0.7152 * c.g + 0.0722 * c.b; }
+
+namespace {
+
+// Bilinear sample of the image at image point (x, y), clamped at the edges.
+Rgb sampleAt(const Image& img, double x, double y) {
+  const double fx = std::clamp(x - 0.5, 0.0, img.width - 1.0), fy = std::clamp(y - 0.5, 0.0, img.height - 1.0);
+  const int x0 = std::min(int(fx), std::max(0, img.width - 2)), y0 = std::min(int(fy), std::max(0, img.height - 2));
+  const int x1 = std::min(x0 + 1, img.width - 1), y1 = std::min(y0 + 1, img.height - 1);
+  const double u = fx - x0, v = fy - y0;
+  const Rgb a = img.at(x0, y0), b = img.at(x1, y0), c = img.at(x0, y1), d = img.at(x1, y1);
+  auto mix = [&](double pa, double pb, double pc, double pd) {
+    return (1 - v) * ((1 - u) * pa + u * pb) + v * ((1 - u) * pc + u * pd);
+  };
+  return {mix(a.r, b.r, c.r, d.r), mix(a.g, b.g, c.g, d.g), mix(a.b, b.b, c.b, d.b)};
+}
+
+// Half-width, in bins, of the moving average along the ring: five bins,
+// five pixels of ring length, so that noise cannot split a spot's edge.
+constexpr int smoothing = 2;
+
+// Radial rows and azimuthal columns of the samples averaged into one bin.
+constexpr int binRadial = 2;  // rows at -2..+2 footprints across the ring
+constexpr int binAzimuthal = 3;
+
+// The mean colour of the annular bin centred at azimuth `phi`, `width`
+// radians wide, within two footprints `step` either side of `radius`:
+// averaging a bin's area evens out the pixel grid and the per-pixel
+// sampling noise where the ring runs along the edge of the swept disc.
+Rgb ringColour(const Image& img, const Camera& camera, const Ring& ring, double phi, double width, double radius,
+               double step) {
+  Rgb sum;
+  int n = 0;
+  for (int j = 0; j < binAzimuthal; ++j) {
+    const double a = phi + ((j + 0.5) / binAzimuthal - 0.5) * width;
+    for (int k = -binRadial; k <= binRadial; ++k) {
+      const double r = radius + k * step;
+      const Vec3 p = ring.centre + Vec3(r * std::cos(a), r * std::sin(a), 0);
+      double x, y;
+      if (!camera.project(p, x, y)) continue;
+      const Rgb c = sampleAt(img, x, y);
+      sum = {sum.r + c.r, sum.g + c.g, sum.b + c.b};
+      ++n;
+    }
+  }
+  return n > 0 ? Rgb{sum.r / n, sum.g / n, sum.b / n} : Rgb{};
+}
+
+// Where across the ring, within a third of its radius, the contrast at
+// azimuth `phi` peaks with the spot's sign.
+double peakRadius(const Image& img, const Camera& camera, const Ring& ring, double phi, double width, double median,
+                  double sign, double step) {
+  double best = ring.radius, bestValue = -1e300;
+  const int reach = int(std::ceil(ring.radius / 3 / step));
+  for (int k = -reach; k <= reach; ++k) {
+    const double r = ring.radius + k * step;
+    if (r <= 0) continue;
+    const double c = sign * (luminance(ringColour(img, camera, ring, phi, width, r, step)) / median - 1.0);
+    if (c > bestValue) {
+      bestValue = c;
+      best = r;
+    }
+  }
+  return best;
+}
+
+// Circular moving average over 2 half + 1 values.
+std::vector<double> movingAverage(const std::vector<double>& v, int half) {
+  const int n = int(v.size());
+  std::vector<double> out(v.size());
+  for (int i = 0; i < n; ++i) {
+    double sum = 0;
+    for (int d = -half; d <= half; ++d) sum += v[std::size_t(((i + d) % n + n) % n)];
+    out[std::size_t(i)] = sum / (2 * half + 1);
+  }
+  return out;
+}
+
+// The profile divided by its first harmonic, a + b cos + c sin, times its
+// mean: a visitor sees the ring's near and far halves lit and shaded
+// differently, a slow swing round the ring that is not a spot. Spots (two
+// or more per turn) are harmonics two and up and stay.
+std::vector<double> withoutTilt(const std::vector<double>& v) {
+  const std::size_t n = v.size();
+  double mean = 0, c = 0, s = 0;
+  for (std::size_t i = 0; i < n; ++i) {
+    const double a = k::twoPi * double(i) / double(n);
+    mean += v[i] / double(n);
+    c += 2 * v[i] * std::cos(a) / double(n);
+    s += 2 * v[i] * std::sin(a) / double(n);
+  }
+  std::vector<double> out(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    const double a = k::twoPi * double(i) / double(n);
+    const double trend = mean + c * std::cos(a) + s * std::sin(a);
+    out[i] = trend > 0 ? v[i] * mean / trend : v[i];
+  }
+  return out;
+}
+
+double medianOf(std::vector<double> v) {
+  std::nth_element(v.begin(), v.begin() + std::ptrdiff_t(v.size() / 2), v.end());
+  return v[v.size() / 2];
+}
+
+// Runs [first, last] of indices (last may pass n, wrapping) where |v / reference - 1| > limit with one sign.
+std::vector<std::pair<int, int>> runsBeyond(const std::vector<double>& v, double reference, double limit) {
+  const int n = int(v.size());
+  auto signAt = [&](int i) {
+    const double c = v[std::size_t(((i % n) + n) % n)] / reference - 1.0;
+    return c > limit ? 1 : c < -limit ? -1 : 0;
+  };
+  std::vector<std::pair<int, int>> runs;
+  int start = 0;
+  while (start < n && signAt(start) != 0) ++start;
+  if (start == n) return runs;
+  for (int i = start + 1; i < start + n;) {
+    const int s = signAt(i);
+    if (s == 0) {
+      ++i;
+      continue;
+    }
+    int j = i;
+    while (j < start + n && signAt(j) == s) ++j;
+    runs.emplace_back(i, j - 1);
+    i = j;
+  }
+  return runs;
+}
+
+}  // namespace
+
+SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, double threshold) {
+  SpotReport report;
+  report.ring = ring;
+  report.threshold = threshold;
+  // One bin per pixel of the ring's length, at least 720 round the ring.
+  const double step = camera.footprintAt(ring.centre);
+  const int n = std::max(720, int(std::ceil(k::twoPi * ring.radius / step)));
+  const double width = k::twoPi / n;
+  const std::size_t count = static_cast<std::size_t>(n);
+  std::vector<Rgb> colour(count);
+  std::vector<double> lum(count);
+  for (int i = 0; i < n; ++i) {
+    colour[std::size_t(i)] = ringColour(img, camera, ring, width * i, width, ring.radius, step);
+    lum[std::size_t(i)] = luminance(colour[std::size_t(i)]);
+  }
+  // The background level: the ring's median, then the median again without
+  // the strong spots and a skirt of their own width either side, so that
+  // the spots and their approach do not pull down (or up) their own reference.
+  const std::vector<double> smooth = withoutTilt(movingAverage(lum, smoothing));
+  report.medianLuminance = medianOf(smooth);
+  if (!(report.medianLuminance > 0)) return report;
+  std::vector<bool> quiet(count, true);
+  for (const auto& [first, last] : runsBeyond(smooth, report.medianLuminance, 2 * threshold)) {
+    const int w = last - first + 1;
+    for (int i = first - w; i <= last + w; ++i) quiet[std::size_t(((i % n) + n) % n)] = false;
+  }
+  std::vector<double> background;
+  for (std::size_t i = 0; i < count; ++i)
+    if (quiet[i]) background.push_back(smooth[i]);
+  if (background.size() >= count / 10) report.medianLuminance = medianOf(background);
+  // Weber contrast of each bin against it.
+  std::vector<double> contrast(count);
+  for (std::size_t i = 0; i < count; ++i) {
+    contrast[i] = smooth[i] / report.medianLuminance - 1.0;
+    report.strongestContrast = std::max(report.strongestContrast, std::abs(contrast[i]));
+  }
+  // Spots: runs of at least two bins beyond the threshold.
+  constexpr int minRun = 2;  // two pixels of ring length
+  for (const auto& [first, last] : runsBeyond(smooth, report.medianLuminance, threshold)) {
+    if (last - first + 1 < minRun) continue;
+    const double sign = contrast[std::size_t(first % n)] > 0 ? 1.0 : -1.0;
+    int peak = first;
+    double weight = 0, moment = 0;
+    for (int j = first; j <= last; ++j) {
+      const double c = sign * contrast[std::size_t(j % n)];
+      if (c > sign * contrast[std::size_t(peak % n)]) peak = j;
+      weight += c;
+      moment += c * j;
+    }
+    Spot spot;
+    spot.azimuth = wrapAngle(width * (moment / weight));
+    spot.contrast = contrast[std::size_t(peak % n)];
+    spot.width = width * (last - first + 1);
+    spot.colour = colour[std::size_t(peak % n)];
+    spot.radius = peakRadius(img, camera, ring, spot.azimuth, width, report.medianLuminance, sign, step);
+    report.spots.push_back(spot);
+  }
+  std::sort(report.spots.begin(), report.spots.end(), [](const Spot& a, const Spot& b) { return a.azimuth < b.azimuth; });
+  return report;
+}
+
+}  // namespace dm
