@@ -22,6 +22,8 @@ int runCli(int argc, char** argv, GuiRunner gui) {
   addSteadyCommand(app, commands);
   addAdviseCommand(app, commands);
   addParamsCommand(app, commands);
+  addEnsembleCommand(app, commands);
+  addCalibrateCommand(app, commands);
   addGuiCommand(app, commands, std::move(gui));
   try {
     app.parse(argc, argv);

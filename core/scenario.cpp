@@ -1,6 +1,7 @@
 #include "core/scenario.hpp"
 
 #include <charconv>
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 #include <fstream>
@@ -44,7 +45,7 @@ std::string rangeText(double lo, double hi, const std::string& unit) {
 // A number stored in SI at `ref`, shown in file units: file = SI / toSI.
 template <class T>
 Field<T> number(std::string path, std::string unit, double min, double max, double toSI,
-                double& (*ref)(T&), std::string help, bool required = false) {
+                std::function<double&(T&)> ref, std::string help, bool required = false) {
   Field<T> f;
   f.path = std::move(path);
   f.type = FieldType::Number;
@@ -103,6 +104,89 @@ constexpr double mm = 1e-3;
 constexpr double deg = k::degree;
 constexpr double revS = k::twoPi;
 constexpr double hz = k::twoPi;
+
+// ---- launch spread --------------------------------------------------------
+
+// One launch parameter that visitors vary: its name under launch_spread, its
+// file unit and range (those of its launch field), the factor to SI, where
+// its spread lives and what it is.
+struct SpreadParam {
+  const char* name;
+  const char* unit;
+  double min, max, toSI;
+  Spread& (*ref)(Scenario&);
+  const char* what;
+};
+
+const std::vector<SpreadParam>& spreadParams() {
+  static const std::vector<SpreadParam> params = {
+      {"revolution", "rev/s", 0, 50, revS, [](Scenario& s) -> Spread& { return s.launchSpread.revolution; },
+       "vertical spin at release"},
+      {"backspin", "-", 0, 2, 1, [](Scenario& s) -> Spread& { return s.launchSpread.backspin; },
+       "axial spin at release"},
+      {"tilt", "deg", 0, 90, deg, [](Scenario& s) -> Spread& { return s.launchSpread.tilt; },
+       "initial tilt of the axis"},
+      {"drift", "mm/s", 0, 2000, mm, [](Scenario& s) -> Spread& { return s.launchSpread.drift; },
+       "sideways speed of the centre at release"},
+  };
+  return params;
+}
+
+// The file-key suffix of a unit: "rev/s" -> "_rev_s", "-" -> "".
+std::string unitSuffix(const std::string& unit) {
+  if (unit == "-") return "";
+  std::string out = "_" + unit;
+  std::replace(out.begin(), out.end(), '/', '_');
+  return out;
+}
+
+// Path of one member (min, max, mean, sd) of a parameter's spread.
+std::string spreadPath(const SpreadParam& p, const std::string& member) {
+  return "launch_spread." + std::string(p.name) + "." + member + unitSuffix(p.unit);
+}
+
+std::string spreadKindName(SpreadKind k) {
+  return k == SpreadKind::Uniform ? "uniform" : k == SpreadKind::Normal ? "normal" : "fixed";
+}
+
+// The kind, bounds, mean and sd fields of one parameter's spread.
+void addSpreadFields(std::vector<Field<Scenario>>& f, const SpreadParam& p) {
+  using S = Scenario;
+  const auto ref = p.ref;
+  const std::string what = p.what;
+  f.push_back(text<S>(
+      "launch_spread." + std::string(p.name) + ".kind", FieldType::Choice, {"fixed", "uniform", "normal"},
+      [ref](const S& s) { return spreadKindName(ref(const_cast<S&>(s)).kind); },
+      [ref](S& s, const std::string& v) {
+        ref(s).kind = v == "uniform" ? SpreadKind::Uniform : v == "normal" ? SpreadKind::Normal : SpreadKind::Fixed;
+      },
+      "ensembles: how " + what + " varies between launches (fixed: the launch value)"));
+  f.push_back(number<S>(spreadPath(p, "min"), p.unit, p.min, p.max, p.toSI, [ref](S& s) -> double& { return ref(s).min; },
+                        "ensembles: lowest " + what + " drawn (uniform and normal)"));
+  f.push_back(number<S>(spreadPath(p, "max"), p.unit, p.min, p.max, p.toSI, [ref](S& s) -> double& { return ref(s).max; },
+                        "ensembles: highest " + what + " drawn (uniform and normal)"));
+  f.push_back(number<S>(spreadPath(p, "mean"), p.unit, p.min, p.max, p.toSI,
+                        [ref](S& s) -> double& { return ref(s).mean; }, "ensembles, normal: mean " + what));
+  f.push_back(number<S>(spreadPath(p, "sd"), p.unit, 0, p.max - p.min, p.toSI,
+                        [ref](S& s) -> double& { return ref(s).sd; }, "ensembles, normal: standard deviation of " + what));
+}
+
+// Cross-field rules of the launch spread: bounds in order, a normal's mean
+// within its bounds.
+void validateLaunchSpread(const Scenario& s) {
+  for (const SpreadParam& p : spreadParams()) {
+    const Spread& d = p.ref(const_cast<Scenario&>(s));
+    const std::string unit = p.unit == std::string("-") ? "" : " " + std::string(p.unit);
+    if (d.max < d.min)
+      throw ScenarioError(spreadPath(p, "max"), "value " + describe(d.max / p.toSI) + " is below " +
+                                                    spreadPath(p, "min") + " (" + describe(d.min / p.toSI) + "); " +
+                                                    rangeText(d.min / p.toSI, p.max, p.unit));
+    if (d.kind == SpreadKind::Normal && (d.mean < d.min || d.mean > d.max))
+      throw ScenarioError(spreadPath(p, "mean"), "value " + describe(d.mean / p.toSI) + unit +
+                                                     " lies outside the bounds of a truncated normal; " +
+                                                     rangeText(d.min / p.toSI, d.max / p.toSI, p.unit));
+  }
+}
 
 std::vector<Field<Scenario>> buildScenarioFields() {
   using S = Scenario;
@@ -179,6 +263,11 @@ std::vector<Field<Scenario>> buildScenarioFields() {
     seed.setNumber = [](S& s, double v) { s.launch.seed = std::uint64_t(v); };
     f.push_back(seed);
   }
+  // launch spread of the ensembles
+  for (const SpreadParam& p : spreadParams()) addSpreadFields(f, p);
+  f.push_back(number<S>("launch_spread.pressed_end_a_share", "-", 0, 1, 1,
+                        [](S& s) -> double& { return s.launchSpread.pressedEndAShare; },
+                        "ensembles: share of launches in which end A is pressed (the rest press end B)"));
   // run and numerics
   f.push_back(number<S>("run.duration_s", "s", 0.01, 600, 1, [](S& s) -> double& { return s.run.duration; },
                         "simulated time", true));
@@ -755,6 +844,7 @@ void validate(const Scenario& s) {
                                                         describe(s.surface.frictionStatic) + "; allowed 0 to the static value");
   checkNumerics(s);
   validateObserver(s.observer);
+  validateLaunchSpread(s);
   for (std::size_t i = 0; i < s.paint.markings.size(); ++i) {
     const Marking& m = s.paint.markings[i];
     const std::string prefix = "markings." + std::to_string(i) + ".";

@@ -51,6 +51,35 @@ struct LaunchSpec {
   std::uint64_t seed = 1;   ///< seed for randomised launches
 };
 
+/// How one launch parameter is drawn for each visitor in an ensemble.
+enum class SpreadKind {
+  Fixed,    ///< always the nominal launch value
+  Uniform,  ///< uniform between min and max
+  Normal,   ///< normal with mean and sd, truncated to [min, max]
+};
+
+/// The distribution of one launch parameter, in the parameter's SI unit.
+struct Spread {
+  SpreadKind kind = SpreadKind::Fixed;
+  double min = 0;   ///< lower bound (uniform range, normal truncation)
+  double max = 0;   ///< upper bound
+  double mean = 0;  ///< normal: mean, within [min, max]
+  double sd = 0;    ///< normal: standard deviation, >= 0
+};
+
+/// What visitors do differently from one launch to the next. Defaults are
+/// our own assumption of hand flicks at an exhibit table (common practice,
+/// no source): 6 to 12 turns a second, a firm but uneven press, a small
+/// tilt, a little sideways push, either end pressed.
+struct LaunchSpreadSpec {
+  Spread revolution{SpreadKind::Normal, 6 * 6.283185307179586, 12 * 6.283185307179586, 9 * 6.283185307179586,
+                    1.5 * 6.283185307179586};                      ///< rad/s
+  Spread backspin{SpreadKind::Uniform, 0.5, 1.0, 0.75, 0.15};      ///< -
+  Spread tilt{SpreadKind::Uniform, 0.0, 0.10471975511965977, 0.05235987755982988, 0.017453292519943295};  ///< rad
+  Spread drift{SpreadKind::Uniform, 0.0, 0.03, 0.015, 0.01};       ///< m/s
+  double pressedEndAShare = 0.5;  ///< probability that a visitor presses end A, 0..1
+};
+
 struct RunSpec {
   double duration = 10.0;        ///< simulated time, s
   double sampleInterval = 1e-3;  ///< trajectory.csv row spacing, s
@@ -118,6 +147,7 @@ struct Scenario {
   Paint paint;
   SurfaceSpec surface;
   LaunchSpec launch;
+  LaunchSpreadSpec launchSpread;
   RunSpec run;
   ContactSpec contact;
   ObserverSpec observer;
