@@ -50,7 +50,8 @@ int runCalibrate(CalibrateArgs& a) {
   const Scenario s = loadScenarioWithOverrides(a.scenario, a.sets);
   a.target.spots = a.spots;
   checkTarget(a.target);  // bad measurements are refused before any folder is made
-  prepareOutputDir(a.out, a.force);
+  // Refuse a folder that would mix results before the run; create it only to write.
+  checkOutputDir(a.out, a.force);
   CalibrationOptions options;
   options.launches = a.launches;
   options.threads = a.threads;
@@ -60,8 +61,8 @@ int runCalibrate(CalibrateArgs& a) {
   const CalibrationResult r = calibrate(s, a.target, options);
   if (options.progress) std::cerr << "\n";
   const std::string dir = a.out + "/";
-  writeFileAtomic(dir + "calibration.json", calibrationJson(r).dump(2) + "\n");
-  writeFileAtomic(dir + "calibrated_scenario.json", scenarioToJson(r.calibrated).dump(2) + "\n");
+  writeOutputs(a.out, {{"calibration.json", jsonFileText(calibrationJson(r))},
+                       {"calibrated_scenario.json", jsonFileText(scenarioToJson(r.calibrated))}});
   if (!a.quiet) printResult(r, dir);
   return exitOk;
 }

@@ -54,7 +54,8 @@ int runEnsembleCommand(const EnsembleArgs& a) {
     s.run.duration = *a.duration;
     validate(s);  // names run.duration_s and its range when out of it
   }
-  prepareOutputDir(a.out, a.force);
+  // Refuse a folder that would mix results before the run; create it only to write.
+  checkOutputDir(a.out, a.force);
   EnsembleOptions options;
   options.launches = a.launches;
   options.threads = a.threads;
@@ -62,8 +63,7 @@ int runEnsembleCommand(const EnsembleArgs& a) {
   if (!a.quiet && ::isatty(STDERR_FILENO)) options.progress = drawProgress;
   const EnsembleResult r = runEnsemble(s, options);
   const std::string dir = a.out + "/";
-  writeFileAtomic(dir + "launches.csv", launchesCsv(r));
-  writeFileAtomic(dir + "ensemble.json", ensembleJson(r).dump(2) + "\n");
+  writeOutputs(a.out, {{"launches.csv", launchesCsv(r)}, {"ensemble.json", jsonFileText(ensembleJson(r))}});
   if (!a.quiet) printSummary(r, dir);
   return exitOk;
 }
