@@ -82,7 +82,7 @@ nlohmann::json patternJson(const std::vector<PatternWindow>& windows) {
   json list = json::array();
   for (const PatternWindow& w : windows) {
     json azimuths = json::array(), drifts = json::array();
-    for (const Spot& s : w.spots) {
+    for (const PatternSpot& s : w.spots) {
       azimuths.push_back(s.azimuth * degPerRad);
       drifts.push_back(s.drift * degPerRad);
     }

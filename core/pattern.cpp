@@ -275,9 +275,9 @@ double slope(const std::vector<double>& x, const std::vector<double>& y) {
 // The spots of one mark: stop i belongs to spot i mod `spots`. A spot's
 // azimuth is the mean of its (unwrapped) stops, its drift their slope in
 // time, or `fallbackDrift` when it holds one stop.
-std::vector<Spot> spotsOfSequence(const std::vector<SeenStop>& seq, int spots, double fallbackDrift) {
+std::vector<PatternSpot> spotsOfSequence(const std::vector<SeenStop>& seq, int spots, double fallbackDrift) {
   const std::size_t stride = std::size_t(spots);
-  std::vector<Spot> out;
+  std::vector<PatternSpot> out;
   for (std::size_t first = 0; first < std::min(seq.size(), stride); ++first) {
     std::vector<double> times{seq[first].time}, azimuths{seq[first].azimuth};
     for (std::size_t i = first + stride; i < seq.size(); i += stride) {
@@ -293,7 +293,7 @@ std::vector<Spot> spotsOfSequence(const std::vector<SeenStop>& seq, int spots, d
 }
 
 // Folds spot b into spot a, weighting by their stops.
-void absorb(Spot& a, const Spot& b) {
+void absorb(PatternSpot& a, const PatternSpot& b) {
   const double w = double(b.stops) / double(a.stops + b.stops);
   a.azimuth = wrapAngle(a.azimuth + w * std::remainder(b.azimuth - a.azimuth, k::twoPi));
   a.drift = (1 - w) * a.drift + w * b.drift;
@@ -302,11 +302,11 @@ void absorb(Spot& a, const Spot& b) {
 
 // Spots of several marks merged where they lie within `size` of each other
 // (round the circle), sorted by azimuth.
-std::vector<Spot> mergeSpots(std::vector<Spot> spots, double size) {
-  const auto byAzimuth = [](const Spot& a, const Spot& b) { return a.azimuth < b.azimuth; };
+std::vector<PatternSpot> mergeSpots(std::vector<PatternSpot> spots, double size) {
+  const auto byAzimuth = [](const PatternSpot& a, const PatternSpot& b) { return a.azimuth < b.azimuth; };
   std::sort(spots.begin(), spots.end(), byAzimuth);
-  std::vector<Spot> merged;
-  for (const Spot& s : spots) {
+  std::vector<PatternSpot> merged;
+  for (const PatternSpot& s : spots) {
     if (!merged.empty() && s.azimuth - merged.back().azimuth < size)
       absorb(merged.back(), s);
     else
@@ -355,9 +355,9 @@ PatternWindow patternWindow(const Trajectory& tr, const std::vector<MarkedPoint>
   }
   w.patternDrift = revisit->shift / revisit->period;
   w.spotSpread = revisit->spread;
-  std::vector<Spot> all;
+  std::vector<PatternSpot> all;
   for (const auto& seq : seqs)
-    for (const Spot& s : spotsOfSequence(seq, revisit->spots, w.patternDrift)) all.push_back(s);
+    for (const PatternSpot& s : spotsOfSequence(seq, revisit->spots, w.patternDrift)) all.push_back(s);
   w.spots = mergeSpots(all, w.spotSize);
   w.revsPerVisit = std::max(1, int(std::lround(revisit->period * std::abs(w.meanPrecession) / k::twoPi)));
   w.kind = kindOfDrift(w.patternDrift, w.spotSize, analysis.eyeTime, t1 - t0);

@@ -91,7 +91,7 @@ enum class PatternKind {
 std::string_view patternKindName(PatternKind k);
 
 /// One distinct stop position.
-struct Spot {
+struct PatternSpot {
   double azimuth = 0;  ///< about the window's mean centre, from lab x counter-clockwise, rad (0..2 pi)
   double drift = 0;    ///< rate of its azimuth, rad/s (least squares over its stops)
   int stops = 0;       ///< stops that landed on it in the window
@@ -101,7 +101,7 @@ struct Spot {
 struct PatternWindow {
   double start = 0, end = 0;          ///< s
   std::optional<End> visibleEnd;      ///< the end raised for most of the window: its marks are seen from above
-  std::vector<Spot> spots;            ///< sorted by azimuth
+  std::vector<PatternSpot> spots;            ///< sorted by azimuth
   int revsPerVisit = 0;               ///< revolutions between visits of one spot (0 without spots)
   double patternDrift = 0;            ///< mean drift of a spot from one visit to the next, rad/s
   double spotSize = 0;                ///< angular size of the smallest seen spot about the centre, rad

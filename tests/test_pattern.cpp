@@ -307,7 +307,7 @@ TEST_CASE("N slightly off four makes four spots creep at -(N - 4) 90 degrees per
   // revolution (physics.md section 4).
   const double expected = 90 * f * (4 - n);
   CHECK(degrees(w.patternDrift) == Approx(expected).epsilon(1e-6));
-  for (const Spot& s : w.spots) CHECK(degrees(s.drift) == Approx(expected).epsilon(1e-6));
+  for (const PatternSpot& s : w.spots) CHECK(degrees(s.drift) == Approx(expected).epsilon(1e-6));
 }
 
 TEST_CASE("N far from a simple ratio washes the stops out into a ring", "[pattern]") {

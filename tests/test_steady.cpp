@@ -407,7 +407,10 @@ TEST_CASE("N counts the mark's visits to the top per revolution", "[steady]") {
   // A mark on the raised end's rim, tracked through one precession period
   // of the prescribed motion: its angle about the axis from the top point
   // (the direction d of physics.md section 2) turns by 2 pi N.
-  for (const auto& [c, s] : sampleStates()) {
+  for (const auto& state : sampleStates()) {
+    // Named references, not a structured binding: clang 14 cannot capture those.
+    const Cylinder& c = state.first;
+    const SteadySpin& s = state.second;
     const SteadyMotion m = motionOf(c, s, End::A);
     const Vec3 mark(c.outerRadius * std::cos(0.4), c.outerRadius * std::sin(0.4), c.length / 2);
     const double period = k::twoPi / s.precession;
@@ -450,7 +453,10 @@ TEST_CASE("the spots of the prescribed motion drift as reported", "[steady]") {
   // then. Every n visits a spot comes back; its azimuth change per
   // precession revolution elapsed is the drift, + in the direction of
   // precession.
-  for (const auto& [c, s] : sampleStates()) {
+  for (const auto& state : sampleStates()) {
+    // Named references, not a structured binding: clang 14 cannot capture those.
+    const Cylinder& c = state.first;
+    const SteadySpin& s = state.second;
     if (!s.pattern || s.nearestSpots == 0) continue;
     CAPTURE(s.tilt, s.spotsPerRev);
     const SteadyMotion m = motionOf(c, s, End::B);

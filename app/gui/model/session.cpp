@@ -351,7 +351,9 @@ std::pair<double, double> Session::observerWindow() const {
 }
 
 bool Session::requestObserverShot(int size, const std::string& exportPath) {
-  const auto [start, end] = observerWindow();
+  // Named copies, not a structured binding: clang 14 (the sanitizer build) cannot capture those.
+  const std::pair<double, double> span = observerWindow();
+  const double start = span.first, end = span.second;
   if (!(start >= 0 && end > start) || start < live_.recent.front().t) {
     if (!exportPath.empty()) warn("the run has not yet moved for observer.exposure_s; no picture written");
     return false;
