@@ -3,6 +3,7 @@
 // 2 bad input (nothing written), 3 numerical fault (run stopped cleanly).
 #pragma once
 #include <functional>
+#include <ostream>
 #include <string>
 #include <utility>
 #include <vector>
@@ -10,6 +11,7 @@
 #include <CLI/CLI.hpp>
 
 #include "core/scenario.hpp"
+#include "core/simulate.hpp"
 
 namespace dm::app {
 
@@ -59,6 +61,14 @@ void addGuiCommand(CLI::App& app, Commands& commands, GuiRunner runner);
 /// Reads a scenario file, applies `--set key.path=value` overrides, parses
 /// and validates it (throws ScenarioError).
 Scenario loadScenarioWithOverrides(const std::string& path, const std::vector<std::string>& sets);
+
+/// Finishes `dwellmark simulate` after the run. A run stopped by a numerical
+/// fault gets its report (time, phase, last good state) on `err`, nothing is
+/// written and the result is exitFault; otherwise trajectory.csv, traces.csv,
+/// stops.csv and summary.json go into `outDir` (created if missing) and `out`
+/// says so.
+int finishSimulation(const Scenario& s, const RunResult& r, const std::string& outDir, std::ostream& out,
+                     std::ostream& err);
 
 /// Parses the command line and runs the chosen subcommand; `gui` is the
 /// GUI's entry point when this build has one.

@@ -6,7 +6,6 @@
 #include "app/cli.hpp"
 #include "core/export.hpp"
 #include "core/io.hpp"
-#include "core/simulate.hpp"
 
 namespace dm::app {
 
@@ -16,52 +15,49 @@ struct SimulateArgs {
   std::string scenario;
   std::string out;
   std::vector<std::string> sets;
-  double duration = -1;
+  double duration = 0;
+  bool durationGiven = false;  ///< --duration-s was on the command line
   bool force = false;
 };
 
 int runSimulate(const SimulateArgs& a) {
   Scenario s = loadScenarioWithOverrides(a.scenario, a.sets);
-  if (a.duration >= 0) {
+  if (a.durationGiven) {
     s.run.duration = a.duration;
     validate(s);
   }
-  prepareOutputDir(a.out, a.force);
-  const RunResult r = simulate(s);
+  // Refuse a folder that would mix results before the run; create it only
+  // when there is something to write.
+  checkOutputDir(a.out, a.force);
+  return finishSimulation(s, simulate(s), a.out, std::cout, std::cerr);
+}
+
+}  // namespace
+
+int finishSimulation(const Scenario& s, const RunResult& r, const std::string& outDir, std::ostream& out,
+                     std::ostream& err) {
   if (r.fault) {
-    const State& g = r.fault->lastGood;
-    std::cerr << "dwellmark: numerical fault at t = " << r.fault->time << " s in phase " << phaseName(r.fault->phase)
-              << ": " << r.fault->reason << "\n  last good state: t = " << g.t << " s, centre (" << g.position.x() * 1e3
-              << ", " << g.position.y() * 1e3 << ", " << g.position.z() * 1e3 << ") mm, speed " << g.velocity.norm()
-              << " m/s, spin " << g.spinBody.norm() << " rad/s\n  nothing was written.\n";
+    err << "dwellmark: " << faultReport(*r.fault) << "\n  nothing was written.\n";
     return exitFault;
   }
   const PatternAnalysis pattern = analysePattern(s, r);
-  const std::string dir = a.out + "/";
-  writeFileAtomic(dir + "trajectory.csv", trajectoryCsv(r, s.run.sampleInterval));
-  writeFileAtomic(dir + "traces.csv", tracesCsv(pattern));
-  writeFileAtomic(dir + "stops.csv", stopsCsv(pattern));
-  nlohmann::json summary = summaryJson(r);
-  summary["scenario"] = s.name;
-  summary["pattern"] = patternJson(pattern.windows);
-  writeFileAtomic(dir + "summary.json", summary.dump(2) + "\n");
-  std::cout << "simulated " << r.summary.endTime << " s of \"" << s.name << "\"\n";
-  std::cout << "  settle time: " << (r.summary.settleTime ? fmt(*r.summary.settleTime, 4) + " s" : "never settled")
-            << ", raised end: " << (r.summary.raisedEnd ? std::string(endName(*r.summary.raisedEnd)) : "none")
-            << ", rest time: " << (r.summary.restTime ? fmt(*r.summary.restTime, 4) + " s" : "still moving") << "\n";
+  const std::vector<OutputFile> files = simulationFiles(s, r, pattern);
+  writeOutputs(outDir, files);
+  const std::string dir = outDir + "/";
+  out << "simulated " << r.summary.endTime << " s of \"" << s.name << "\"\n";
+  out << "  settle time: " << (r.summary.settleTime ? fmt(*r.summary.settleTime, 4) + " s" : "never settled")
+      << ", raised end: " << (r.summary.raisedEnd ? std::string(endName(*r.summary.raisedEnd)) : "none")
+      << ", rest time: " << (r.summary.restTime ? fmt(*r.summary.restTime, 4) + " s" : "still moving") << "\n";
   // The last window with an end raised: the pattern a visitor saw last.
   const auto seen = std::find_if(pattern.windows.rbegin(), pattern.windows.rend(),
                                  [](const PatternWindow& w) { return w.visibleEnd.has_value(); });
   if (seen != pattern.windows.rend())
-    std::cout << "  last pattern " << patternSentence(*seen) << "\n";
+    out << "  last pattern " << patternSentence(*seen) << "\n";
   else
-    std::cout << "  no end raised in any pattern window\n";
-  for (const char* name : {"trajectory.csv", "traces.csv", "stops.csv", "summary.json"})
-    std::cout << "wrote " << dir << name << "\n";
+    out << "  no end raised in any pattern window\n";
+  for (const OutputFile& f : files) out << "wrote " << dir << f.name << "\n";
   return exitOk;
 }
-
-}  // namespace
 
 void addSimulateCommand(CLI::App& app, Commands& commands) {
   auto args = std::make_shared<SimulateArgs>();
@@ -69,9 +65,13 @@ void addSimulateCommand(CLI::App& app, Commands& commands) {
   sub->add_option("scenario", args->scenario, "scenario JSON file")->required();
   sub->add_option("--out", args->out, "output folder (new or empty)")->required();
   sub->add_option("--set", args->sets, "override a scenario field: key.path=value (repeatable)");
-  sub->add_option("--duration-s", args->duration, "simulated time in seconds (overrides run.duration_s)");
+  CLI::Option* duration =
+      sub->add_option("--duration-s", args->duration, "simulated time in seconds (overrides run.duration_s)");
   sub->add_flag("--force", args->force, "write into a folder that already holds files");
-  commands.add(sub, [args] { return runSimulate(*args); });
+  commands.add(sub, [args, duration] {
+    args->durationGiven = duration->count() > 0;
+    return runSimulate(*args);
+  });
 }
 
 }  // namespace dm::app

@@ -288,7 +288,7 @@ double energy(const Params& p, const State& s, const ContactReport& c) {
 bool healthy(const State& s) {
   const bool finite = s.position.allFinite() && s.velocity.allFinite() && s.spinBody.allFinite() &&
                       s.orientation.coeffs().allFinite() && std::isfinite(s.t);
-  return finite && s.velocity.norm() < k::runawaySpeed && s.spinBody.norm() < 1e4;
+  return finite && s.velocity.norm() < k::runawaySpeed && s.spinBody.norm() < k::runawaySpin;
 }
 
 }  // namespace dm

@@ -154,4 +154,44 @@ nlohmann::json summaryJson(const RunResult& r) {
   return j;
 }
 
+namespace {
+
+// Throws std::domain_error naming the first non-finite number's path.
+void requireFinite(const nlohmann::json& j, const std::string& path) {
+  if (j.is_number_float() && !std::isfinite(j.get<double>()))
+    throw std::domain_error("a non-finite number reached an output at " + (path.empty() ? "(top)" : path));
+  if (j.is_object())
+    for (auto it = j.begin(); it != j.end(); ++it) requireFinite(*it, path.empty() ? it.key() : path + "." + it.key());
+  if (j.is_array())
+    for (std::size_t i = 0; i < j.size(); ++i) requireFinite(j[i], path + "." + std::to_string(i));
+}
+
+}  // namespace
+
+std::string faultReport(const Fault& f) {
+  const State& g = f.lastGood;
+  std::ostringstream o;
+  o.precision(6);
+  o << "numerical fault at t = " << f.time << " s in phase " << phaseName(f.phase) << ": " << f.reason
+    << "\n  last good state: t = " << g.t << " s, centre (" << g.position.x() * 1e3 << ", " << g.position.y() * 1e3
+    << ", " << g.position.z() * 1e3 << ") mm, speed " << g.velocity.norm() << " m/s, spin " << g.spinBody.norm()
+    << " rad/s";
+  return o.str();
+}
+
+std::string jsonFileText(const nlohmann::json& j) {
+  requireFinite(j, "");
+  return j.dump(2) + "\n";
+}
+
+std::vector<OutputFile> simulationFiles(const Scenario& s, const RunResult& r, const PatternAnalysis& pattern) {
+  nlohmann::json summary = summaryJson(r);
+  summary["scenario"] = s.name;
+  summary["pattern"] = patternJson(pattern.windows);
+  return {{"trajectory.csv", trajectoryCsv(r, s.run.sampleInterval)},
+          {"traces.csv", tracesCsv(pattern)},
+          {"stops.csv", stopsCsv(pattern)},
+          {"summary.json", jsonFileText(summary)}};
+}
+
 }  // namespace dm

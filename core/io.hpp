@@ -3,6 +3,7 @@
 #pragma once
 #include <stdexcept>
 #include <string>
+#include <vector>
 
 namespace dm {
 
@@ -18,6 +19,23 @@ void writeFileAtomic(const std::string& path, const std::string& content);
 /// Makes `dir` ready for new results: creates it if missing; refuses
 /// (OutputError) if it exists and is not empty, unless `force`.
 void prepareOutputDir(const std::string& dir, bool force);
+
+/// The check of prepareOutputDir without creating anything: refuses
+/// (OutputError) a `dir` that is not a folder, or a non-empty folder unless
+/// `force`. Run it before a long computation, write with writeOutputs after,
+/// so a run that stops early leaves no folder behind.
+void checkOutputDir(const std::string& dir, bool force);
+
+/// One output file: its name inside the output folder and its whole content.
+struct OutputFile {
+  std::string name;
+  std::string content;
+};
+
+/// Creates `dir` if missing and writes every file into it atomically. The
+/// contents are formatted before anything is written, so a formatting
+/// failure (NaN, see fmt) never leaves a folder with only some of the files.
+void writeOutputs(const std::string& dir, const std::vector<OutputFile>& files);
 
 /// Formats a number for text outputs: `digits` significant digits, no NaN or
 /// infinity (those throw std::domain_error: they must never reach a file).

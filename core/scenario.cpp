@@ -1,6 +1,7 @@
 #include "core/scenario.hpp"
 
 #include <algorithm>
+#include <charconv>
 #include <cmath>
 #include <cstdio>
 #include <fstream>
@@ -11,6 +12,8 @@
 
 #include "core/colour.hpp"
 #include "core/constants.hpp"
+#include "core/dynamics.hpp"
+#include "core/launch.hpp"
 
 namespace dm {
 
@@ -21,6 +24,14 @@ using json = nlohmann::json;
 std::string describe(double v) {
   std::ostringstream o;
   o.precision(10);
+  o << v;
+  return o.str();
+}
+
+// A derived figure in a message, to four significant digits.
+std::string approx(double v) {
+  std::ostringstream o;
+  o.precision(4);
   o << v;
   return o.str();
 }
@@ -391,6 +402,17 @@ std::vector<Field<TracePointSpec>> buildTracePointFields() {
   return f;
 }
 
+// True when `text` can be written back into a JSON file: valid UTF-8 (a
+// --set value can hold any bytes; a parsed file cannot).
+bool isUtf8(const std::string& text) {
+  try {
+    (void)json(text).dump();
+    return true;
+  } catch (const json::type_error&) {
+    return false;
+  }
+}
+
 template <class T>
 void checkRange(const Field<T>& f, const T& s, const std::string& prefix) {
   if (f.type != FieldType::Number && f.type != FieldType::Integer) return;
@@ -439,6 +461,7 @@ void setFromJson(const Field<T>& f, T& target, const json& v, const std::string&
     }
     case FieldType::Text:
       if (!v.is_string()) throw ScenarioError(path, "expected a string, got " + v.dump());
+      if (!isUtf8(v.get<std::string>())) throw ScenarioError(path, "text is not valid UTF-8");
       f.setText(target, v.get<std::string>());
       return;
   }
@@ -460,8 +483,9 @@ json& atPath(json& doc, const std::string& path) {
   std::string part;
   while (std::getline(ss, part, '.')) {
     if (!part.empty() && std::all_of(part.begin(), part.end(), ::isdigit)) {
-      const std::size_t i = std::stoul(part);
-      if (!node->is_array() || i >= node->size())
+      std::size_t i = 0;
+      const auto [end, error] = std::from_chars(part.data(), part.data() + part.size(), i);
+      if (error != std::errc() || !node->is_array() || i >= node->size())
         throw ScenarioError(path, "no element " + part + " here");
       node = &(*node)[i];
     } else {
@@ -480,6 +504,108 @@ const Field<T>* findIn(const std::vector<Field<T>>& fields, const std::string& p
   return nullptr;
 }
 
+// Deepest nesting of objects and arrays a scenario text may have: the
+// format needs three; the bound keeps every recursive JSON routine shallow.
+constexpr std::size_t maxNesting = 32;
+
+// A SAX pass over a JSON text that stops at the first key given twice in one
+// object (with its dotted path, array items by index: "markings.1.end"), at
+// nesting deeper than maxNesting, or at a syntax error (json::parse then says
+// what is wrong).
+class StructureCheck : public nlohmann::json_sax<json> {
+ public:
+  std::string duplicate;  ///< dotted path of the first repeated key; empty if none
+  bool tooDeep = false;   ///< the nesting passed maxNesting ...
+  std::string deepPath;   ///< ... at this dotted path (cut to 200 characters)
+
+  bool null() override { return item(); }
+  bool boolean(bool) override { return item(); }
+  bool number_integer(number_integer_t) override { return item(); }
+  bool number_unsigned(number_unsigned_t) override { return item(); }
+  bool number_float(number_float_t, const string_t&) override { return item(); }
+  bool string(string_t&) override { return item(); }
+  bool binary(binary_t&) override { return item(); }
+  bool start_object(std::size_t) override { return open(false); }
+  bool start_array(std::size_t) override { return open(true); }
+  bool end_object() override { return close(); }
+  bool end_array() override { return close(); }
+  bool key(string_t& k) override {
+    Frame& f = frames_.back();
+    if (!f.keys.insert(k).second) {
+      duplicate = pathTo(k);
+      return false;
+    }
+    f.key = k;
+    return true;
+  }
+  bool parse_error(std::size_t, const std::string&, const nlohmann::detail::exception&) override { return false; }
+
+ private:
+  struct Frame {
+    bool array = false;
+    std::size_t items = 0;  // array: items begun so far
+    std::string key;        // object: the key being read
+    std::set<std::string> keys;
+  };
+  std::vector<Frame> frames_;        // the open containers, outermost first
+  std::vector<std::string> labels_;  // how each open container but the outermost is reached
+
+  // The label of the value that begins now (its key, or its index in an
+  // array), counting it as an array item.
+  std::string beginValue() {
+    if (frames_.empty()) return "";
+    Frame& f = frames_.back();
+    return f.array ? std::to_string(f.items++) : f.key;
+  }
+  bool item() {
+    beginValue();
+    return true;
+  }
+  bool open(bool array) {
+    const bool nested = !frames_.empty();
+    const std::string label = beginValue();
+    if (frames_.size() >= maxNesting) {
+      tooDeep = true;
+      deepPath = pathTo(label).substr(0, 200);
+      return false;
+    }
+    if (nested) labels_.push_back(label);
+    frames_.push_back(Frame{array, 0, "", {}});
+    return true;
+  }
+  bool close() {
+    frames_.pop_back();
+    if (!frames_.empty()) labels_.pop_back();
+    return true;
+  }
+  std::string pathTo(const std::string& last) const {
+    std::string path;
+    for (const std::string& l : labels_) path += l + ".";
+    return path + last;
+  }
+};
+
+// True when `path` names a group of scenario fields, the JSON object that
+// holds them ("body" holds "body.length_mm").
+bool isFieldGroup(const std::string& path) {
+  const std::string prefix = path + ".";
+  for (const auto& f : scenarioFields())
+    if (f.path.rfind(prefix, 0) == 0) return true;
+  return false;
+}
+
+// True when a version value names a format this build reads (1 to
+// scenarioFormatVersion), whatever JSON integer type holds it.
+bool readableVersion(const json& version) {
+  if (version.is_number_unsigned()) {
+    const std::uint64_t v = version.get<std::uint64_t>();
+    return v >= 1 && v <= std::uint64_t(scenarioFormatVersion);
+  }
+  if (!version.is_number_integer()) return false;
+  const std::int64_t v = version.get<std::int64_t>();
+  return v >= 1 && v <= scenarioFormatVersion;
+}
+
 // Parses the bare text of a --set value into JSON by the field's type.
 template <class T>
 json parseOverrideValue(const Field<T>& f, const std::string& value, const std::string& path) {
@@ -488,7 +614,10 @@ json parseOverrideValue(const Field<T>& f, const std::string& value, const std::
     const double x = std::strtod(value.c_str(), &end);
     if (value.empty() || end != value.c_str() + value.size() || !std::isfinite(x))
       throw ScenarioError(path, "expected a number (" + f.unit + "), got \"" + value + "\"");
-    if (f.type == FieldType::Integer) return std::int64_t(x) == x ? json(std::int64_t(x)) : json(x);
+    // Whole numbers within what a double holds exactly become JSON integers;
+    // anything else stays a number for the range check to refuse.
+    if (f.type == FieldType::Integer && std::abs(x) <= 9007199254740991.0 && std::floor(x) == x)
+      return json(std::int64_t(x));
     return x;
   }
   std::string v = value;
@@ -581,6 +710,78 @@ const std::vector<Field<TracePointSpec>>& tracePointFields() {
 
 const Field<Scenario>* findField(const std::string& path) { return findIn(scenarioFields(), path); }
 
+namespace {
+
+// Largest launch.backspin that keeps the release spin at or below `limit`
+// (rad/s) with the scenario's vertical spin and body: the release spin is
+// W z + b psi1 u (u the pressed end's axis, psi1 the axial spin of b = 1).
+double largestBackspin(const Scenario& s, double limit) {
+  Scenario one = s;
+  one.launch.backspin = 1;
+  const Params p = makeParams(one);
+  const State s1 = launchState(p, one.launch);
+  const Vec3 axial = s1.spinWorld() - s.launch.revolution * up();
+  const double psi1 = axial.norm(), w = s.launch.revolution;
+  if (psi1 <= 0) return 2;
+  const double uz = axial.z() / psi1;
+  // |W z + b psi1 u|^2 = limit^2, the larger root.
+  const double half = w * psi1 * uz;
+  return std::max(0.0, (-half + std::sqrt(half * half - psi1 * psi1 * (w * w - limit * limit))) / (psi1 * psi1));
+}
+
+// The numerical rules: a stiff enough contact, a release spin below the
+// runaway limit, and a step that resolves the contact and the release spin.
+void checkNumerics(const Scenario& s) {
+  const NumericsNeeds needs = numericsNeeds(s);
+  const double radius = s.body.outerDiameter / 2, w = s.contact.frequency;
+  if (w < needs.minContactFrequency) {
+    Scenario stiffer = s;
+    stiffer.contact.frequency = std::ceil(needs.minContactFrequency / hz) * hz;
+    const double sag = k::gravity / (w * w);
+    throw ScenarioError("contact.frequency_hz",
+                        "value " + describe(w / hz) + " lets the body sink " + approx(sag * 1e6) +
+                            " um under its weight, " + approx(100 * sag / radius) + " % of its " +
+                            describe(radius / mm) + " mm outer radius; allowed at least " +
+                            describe(stiffer.contact.frequency / hz) + " Hz for this body (at most " +
+                            describe(100 * k::maxStaticDeflection) + " %), with run.substeps at least " +
+                            std::to_string(numericsNeeds(stiffer).minSubsteps));
+  }
+  const double spinLimit = 0.5 * k::runawaySpin;
+  if (needs.releaseSpin > spinLimit)
+    throw ScenarioError("launch.backspin",
+                        "value " + describe(s.launch.backspin) + " spins the body at " + approx(needs.releaseSpin) +
+                            " rad/s at release, over half the " + describe(k::runawaySpin) +
+                            " rad/s a run treats as runaway; allowed at most " +
+                            describe(std::floor(largestBackspin(s, spinLimit) * 1000) / 1000) + " for this body and launch.revolution_rev_s");
+  if (s.run.substeps < needs.minSubsteps) {
+    const double step = s.run.timeStep(), turn = needs.releaseSpin * step;
+    const std::string why = turn > k::maxTurnPerStep
+                                ? "in which the release spin (" + approx(needs.releaseSpin) + " rad/s) turns the body by " +
+                                      approx(turn) + " rad, more than " + describe(k::maxTurnPerStep) + " rad"
+                                : "longer than a twentieth of the contact period (" +
+                                      approx(0.05 * k::twoPi / w * 1e6) + " us)";
+    throw ScenarioError("run.substeps", "value " + describe(s.run.substeps) + " gives a " + approx(step * 1e6) +
+                                            " us step " + why + "; allowed at least " +
+                                            std::to_string(needs.minSubsteps) +
+                                            (turn > k::maxTurnPerStep ? ", or launch.backspin at most " +
+                                                                            describe(std::floor(largestBackspin(s, k::maxTurnPerStep / step) * 1000) / 1000)
+                                                                      : ""));
+  }
+}
+
+}  // namespace
+
+NumericsNeeds numericsNeeds(const Scenario& s) {
+  NumericsNeeds n;
+  n.minContactFrequency = std::sqrt(k::gravity / (k::maxStaticDeflection * s.body.outerDiameter / 2));
+  n.releaseSpin = launchState(makeParams(s), s.launch).spinBody.norm();
+  // Longest step that resolves the contact and turns the body by at most maxTurnPerStep.
+  double longest = 0.05 * k::twoPi / s.contact.frequency;
+  if (n.releaseSpin > 0) longest = std::min(longest, k::maxTurnPerStep / n.releaseSpin);
+  n.minSubsteps = int(std::ceil(s.run.sampleInterval / longest * (1 - 1e-12)));
+  return n;
+}
+
 Cylinder cylinderOf(const BodySpec& b) {
   Cylinder c;
   c.length = b.length;
@@ -627,13 +828,7 @@ void validate(const Scenario& s) {
     throw ScenarioError("surface.friction_kinetic", "value " + describe(s.surface.frictionKinetic) +
                                                         " exceeds surface.friction_static " +
                                                         describe(s.surface.frictionStatic) + "; allowed 0 to the static value");
-  // The step must resolve the contact: at most a twentieth of its period.
-  const double step = s.run.timeStep(), longest = 0.05 * k::twoPi / s.contact.frequency;
-  if (step > longest)
-    throw ScenarioError("run.substeps", "value " + describe(s.run.substeps) + " gives a " + describe(step * 1e6) +
-                                            " us step, longer than a twentieth of the contact period (" +
-                                            describe(longest * 1e6) + " us); allowed at least " +
-                                            describe(std::ceil(s.run.sampleInterval / longest)));
+  checkNumerics(s);
   validateObserver(s.observer);
   validateLaunchSpread(s);
   for (std::size_t i = 0; i < s.paint.markings.size(); ++i) {
@@ -657,7 +852,7 @@ Scenario scenarioFromJson(const json& doc) {
     throw ScenarioError("dwellmark_scenario", "missing; a scenario file starts with \"dwellmark_scenario\": " +
                                                   std::to_string(scenarioFormatVersion));
   const json& version = doc["dwellmark_scenario"];
-  if (!version.is_number_integer() || version.get<int>() < 1 || version.get<int>() > scenarioFormatVersion)
+  if (!readableVersion(version))
     throw ScenarioError("dwellmark_scenario", "version " + version.dump() + " is not supported; this build reads version " +
                                                   std::to_string(scenarioFormatVersion));
 
@@ -678,11 +873,15 @@ Scenario scenarioFromJson(const json& doc) {
         seen.insert(path);
         continue;
       }
-      if (it->is_object()) {
+      const auto* f = findField(path);
+      // Only known groups are entered, so the walk is never deeper than the table.
+      if (!f && it->is_object()) {
+        if (!isFieldGroup(path)) throw ScenarioError(path, "unknown key");
         walk(*it, path);
         continue;
       }
-      const auto* f = findField(path);
+      if (!f && isFieldGroup(path))
+        throw ScenarioError(path, "expected an object holding the " + path + ".* fields, got " + it->dump());
       if (!f) throw ScenarioError(path, "unknown key");
       setFromJson(*f, s, *it, path);
       seen.insert(path);
@@ -715,16 +914,30 @@ json scenarioToJson(const Scenario& s) {
   return doc;
 }
 
+json parseScenarioText(const std::string& text, const std::string& origin) {
+  // A streaming pass first: it refuses repeated keys and deep nesting before
+  // any document is built.
+  StructureCheck check;
+  json::sax_parse(text, &check);
+  if (!check.duplicate.empty()) throw ScenarioError(check.duplicate, "key given twice in " + origin + "; keep one");
+  if (check.tooDeep)
+    throw ScenarioError(check.deepPath,
+                        "nested deeper than " + std::to_string(maxNesting) + " levels in " + origin +
+                            "; a scenario needs three");
+  try {
+    return json::parse(text);
+  } catch (const json::exception& e) {
+    // parse_error for bad syntax, out_of_range for a number beyond a double.
+    throw ScenarioError("(file)", origin + " is not valid JSON: " + e.what());
+  }
+}
+
 json readScenarioJson(const std::string& path) {
   std::ifstream in(path, std::ios::binary);
   if (!in) throw ScenarioError("(file)", "cannot read " + path);
   std::stringstream buf;
   buf << in.rdbuf();
-  try {
-    return json::parse(buf.str());
-  } catch (const json::parse_error& e) {
-    throw ScenarioError("(file)", path + " is not valid JSON: " + e.what());
-  }
+  return parseScenarioText(buf.str(), path);
 }
 
 Scenario loadScenario(const std::string& path) { return scenarioFromJson(readScenarioJson(path)); }

@@ -97,7 +97,7 @@ enum class Waveform { None, Sine, RectifiedMains };
 
 struct ObserverSpec {
   ViewKind view = ViewKind::Top;
-  ExposureMode mode = ExposureMode::Eye;
+  ExposureMode mode = ExposureMode::Camera;
   double start = 4.0;             ///< exposure start time, s
   double exposure = 0.5;          ///< box-shutter exposure / eye integration window, s
   double eyeHeight = 1.5;         ///< visitor eye above the table top, m
@@ -204,6 +204,19 @@ Scenario defaultScenario();
 /// naming the first offending field.
 void validate(const Scenario& s);
 
+/// What a scenario's body and launch ask of the numerics (validate enforces
+/// it): a contact stiff enough that the body's weight sinks it by at most
+/// k::maxStaticDeflection of its outer radius, and enough integrator steps
+/// per row to resolve both the contact (a twentieth of its period per step)
+/// and the spin at release (at most k::maxTurnPerStep per step).
+struct NumericsNeeds {
+  double minContactFrequency = 0;  ///< rad/s
+  int minSubsteps = 1;             ///< at the scenario's own contact.frequency and run.sample_ms
+  double releaseSpin = 0;          ///< angular speed at release, rad/s
+};
+/// The needs of a scenario whose fields are each within their ranges.
+NumericsNeeds numericsNeeds(const Scenario& s);
+
 /// Parses and validates a scenario document. Unknown keys, missing required
 /// fields, wrong types and out-of-range values throw ScenarioError.
 Scenario scenarioFromJson(const nlohmann::json& doc);
@@ -213,8 +226,13 @@ nlohmann::json scenarioToJson(const Scenario& s);
 /// Reads, parses and validates a scenario file.
 Scenario loadScenario(const std::string& path);
 /// Reads a scenario file as JSON (no validation); throws ScenarioError on a
-/// missing file or malformed JSON.
+/// missing file or what parseScenarioText refuses.
 nlohmann::json readScenarioJson(const std::string& path);
+/// Parses scenario text as JSON (no validation). Malformed JSON and a key
+/// given twice in one object (RFC 8259 section 4 leaves its meaning open; a
+/// hand edit that repeats a key would otherwise lose one value silently)
+/// throw ScenarioError; `origin` names the text in messages.
+nlohmann::json parseScenarioText(const std::string& text, const std::string& origin);
 
 /// Applies `key.path=value` overrides to a scenario document before parsing.
 /// Numbers, true/false and quoted or bare strings are accepted; the path must

@@ -1,11 +1,38 @@
 #!/usr/bin/env bash
 # Builds dwellmark and runs every test: unit, validation, command-line
-# end-to-end and GUI screenshot tests (ctest). Installs missing Debian
+# end-to-end and GUI screenshot tests (ctest), then the same unit and
+# end-to-end tests built with AddressSanitizer and UndefinedBehaviorSanitizer
+# (clang), then a bounded run of the scenario fuzzer. Installs missing Debian
 # packages first (needs root for that step). Usage: bash tests/run-all.sh
 set -euo pipefail
 cd "$(dirname "$0")/.."
 bash third_party/install-deps.sh
+# Two jobs at most: the machine's two cores are shared.
 jobs=$(nproc 2>/dev/null || echo 2)
+[ "$jobs" -le 2 ] || jobs=2
+start=$SECONDS
+stage() { echo "run-all: $1 ($((SECONDS - start)) s so far)"; }
+
+# 1. Release build, every test.
+stage "release build and tests"
 cmake -S . -B build -DCMAKE_BUILD_TYPE=Release
 cmake --build build -j"$jobs"
 ctest --test-dir build --output-on-failure -j"$jobs"
+
+# 2. Sanitizers: a lean clang build (no GUI, no benchmarks; -O1 with line
+# tables for readable reports) of the unit and end-to-end tests and the
+# fuzz target. Any report aborts the test that made it.
+stage "sanitizer build and tests"
+cmake -S . -B build-asan -DCMAKE_C_COMPILER=clang -DCMAKE_CXX_COMPILER=clang++ \
+  -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCMAKE_C_FLAGS_RELWITHDEBINFO="-O1 -gline-tables-only" \
+  -DCMAKE_CXX_FLAGS_RELWITHDEBINFO="-O1 -gline-tables-only" \
+  -DDWELLMARK_SANITIZE=ON -DDWELLMARK_FUZZ=ON -DDWELLMARK_GUI=OFF -DDWELLMARK_BENCH=OFF
+cmake --build build-asan -j"$jobs"
+ASAN_OPTIONS=detect_leaks=1:abort_on_error=1:strict_string_checks=1:detect_stack_use_after_return=1 \
+UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
+  ctest --test-dir build-asan --output-on-failure -j"$jobs"
+
+# 3. Fuzz the scenario parser and validator for a bounded minute.
+stage "fuzzing"
+bash tests/fuzz/run-fuzz.sh build-asan 60
+stage "all stages passed"

@@ -1,11 +1,17 @@
 // The scenario file: one field table, validation with named fields, round trips.
+#include <algorithm>
+#include <filesystem>
+#include <fstream>
 #include <optional>
+#include <sstream>
 
 #include <catch2/catch.hpp>
 
 #include "core/colour.hpp"
 #include "core/constants.hpp"
+#include "core/dynamics.hpp"
 #include "core/scenario.hpp"
+#include "tests/fuzz/scenario_input.hpp"
 
 using namespace dm;
 using nlohmann::json;
@@ -236,4 +242,184 @@ TEST_CASE("launch spread fields read in file units and check their bounds", "[sc
   bad = d;
   bad["launch_spread"]["pressed_end_a_share"] = 1.5;
   CHECK(refusedField(bad) == "launch_spread.pressed_end_a_share");
+}
+
+TEST_CASE("hand edits: a repeated key, deep nesting and a group given as a value are refused with their path",
+          "[scenario][parse]") {
+  auto refusedText = [](const std::string& text) {
+    try {
+      scenarioFromJson(parseScenarioText(text, "edited.json"));
+    } catch (const ScenarioError& e) {
+      return e.field();
+    }
+    return std::string();
+  };
+  CHECK(refusedText(R"({"dwellmark_scenario": 1, "body": {"length_mm": 60, "length_mm": 61}})") == "body.length_mm");
+  CHECK(refusedText(R"({"dwellmark_scenario": 1, "markings": [{"kind": "dot"}, {"end": "A", "end": "B"}]})") ==
+        "markings.1.end");
+  // The same key in two different objects is no repetition.
+  const std::string fine = demoDoc().dump();
+  CHECK_NOTHROW(scenarioFromJson(parseScenarioText(fine, "demo")));
+  // Ten thousand nested arrays: refused at the nesting limit, not walked.
+  const std::string deep = R"({"dwellmark_scenario": 1, "body": )" + std::string(10000, '[') + std::string(10000, ']') + "}";
+  CHECK(refusedText(deep).rfind("body.0.0.0", 0) == 0);
+  // Unknown groups are refused before being entered; known groups must be objects.
+  json d = demoDoc();
+  d["lamp"] = {{"colour", {{"hue", 1}}}};
+  CHECK(refusedField(d) == "lamp");
+  json e = demoDoc();
+  e["surface"] = 0.4;
+  CHECK(refusedField(e) == "surface");
+}
+
+TEST_CASE("the format version is read exactly, whatever JSON number type holds it", "[scenario][parse]") {
+  // 4294967297 is 2^32 + 1: read as a 32-bit int it used to pass as version 1.
+  for (const json& v : {json(4294967297ULL), json(0), json(-1), json(1.0), json("1"), json(nullptr)}) {
+    json d = demoDoc();
+    d["dwellmark_scenario"] = v;
+    INFO(v.dump());
+    CHECK(refusedField(d) == "dwellmark_scenario");
+  }
+}
+
+TEST_CASE("override values that used to crash or mislead are refused with the field", "[scenario][parse]") {
+  json d = demoDoc();
+  auto refusedOverride = [&](const std::string& assignment) {
+    json doc = d;
+    try {
+      applyOverride(doc, assignment);
+      scenarioFromJson(doc);
+    } catch (const ScenarioError& e) {
+      return e.field();
+    }
+    return std::string();
+  };
+  // A float-to-integer conversion out of range (undefined behaviour before).
+  CHECK(refusedOverride("run.substeps=1e300") == "run.substeps");
+  CHECK(refusedOverride("run.substeps=2.5") == "run.substeps");
+  // An index beyond any integer (std::out_of_range escaped before).
+  CHECK(refusedOverride("markings.99999999999999999999999.colour=#000000") ==
+        "markings.99999999999999999999999.colour");
+  // Text that is not UTF-8 was accepted and then made writing summary.json fail.
+  CHECK(refusedOverride("name=\xff\xfe") == "name");
+  CHECK(refusedOverride("name=caf\xc3\xa9") == "");
+}
+
+namespace {
+
+// Every file in a folder of the source tree, in name order.
+std::vector<std::filesystem::path> filesIn(const std::string& folder) {
+  std::vector<std::filesystem::path> files;
+  const std::filesystem::path dir = std::filesystem::path(DWELLMARK_SOURCE_DIR) / folder;
+  if (std::filesystem::is_directory(dir))
+    for (const auto& e : std::filesystem::directory_iterator(dir))
+      if (e.is_regular_file()) files.push_back(e.path());
+  std::sort(files.begin(), files.end());
+  return files;
+}
+
+std::string bytesOf(const std::filesystem::path& p) {
+  std::ifstream in(p, std::ios::binary);
+  std::stringstream ss;
+  ss << in.rdbuf();
+  return ss.str();
+}
+
+}  // namespace
+
+TEST_CASE("the fuzz seeds: broken inputs are refused, good ones accepted, and every property holds",
+          "[scenario][fuzz]") {
+  // The same check the fuzzer applies (tests/fuzz/scenario_input.hpp) on
+  // the hand-made seeds: bad-* must be refused, ok-* and the demo accepted.
+  const auto seeds = filesIn("tests/fuzz/seeds");
+  REQUIRE(seeds.size() >= 20);
+  for (const auto& f : seeds) {
+    INFO(f.filename().string());
+    const bool bad = f.filename().string().rfind("bad-", 0) == 0;
+    CHECK(fuzz::checkScenarioInput(bytesOf(f)) == (bad ? fuzz::Outcome::Refused : fuzz::Outcome::Accepted));
+  }
+  for (const auto& f : filesIn("assets/scenarios")) {
+    INFO(f.filename().string());
+    CHECK(fuzz::checkScenarioInput(bytesOf(f)) == fuzz::Outcome::Accepted);
+  }
+}
+
+TEST_CASE("every input the fuzzer found a fault with is now refused or accepted cleanly", "[scenario][fuzz]") {
+  // Regression inputs: tests/fuzz/regressions/, one file per finding,
+  // named after what it broke. Each must pass the fuzzer's own check.
+  for (const auto& f : filesIn("tests/fuzz/regressions")) {
+    INFO(f.filename().string());
+    CHECK_NOTHROW(fuzz::checkScenarioInput(bytesOf(f)));
+  }
+}
+
+TEST_CASE("numerics refusals name the setting and a value that is then accepted", "[scenario][numerics]") {
+  json coin = demoDoc();
+  applyOverride(coin, "body.shape=disk");
+  applyOverride(coin, "body.length_mm=0.4");
+  applyOverride(coin, "body.outer_diameter_mm=2");
+  // A 2 mm coin on the default 100 Hz contact sinks 25 um, 2.5 % of its radius.
+  CHECK(refusedField(coin) == "contact.frequency_hz");
+  // sqrt(g / (0.01 R)) / 2 pi with R = 1 mm: 157.6 Hz, so 158 Hz; its
+  // contact period then needs 4 steps per 1 ms row (a twentieth each).
+  try {
+    scenarioFromJson(coin);
+  } catch (const ScenarioError& e) {
+    CHECK(std::string(e.what()).find("allowed at least 158 Hz") != std::string::npos);
+    CHECK(std::string(e.what()).find("run.substeps at least 4") != std::string::npos);
+  }
+  applyOverride(coin, "contact.frequency_hz=158");
+  CHECK(refusedField(coin) == "run.substeps");
+  applyOverride(coin, "run.substeps=4");
+  CHECK(refusedField(coin) == "");
+
+  json rod = demoDoc();
+  applyOverride(rod, "body.shape=rod");
+  applyOverride(rod, "body.length_mm=400");
+  applyOverride(rod, "body.outer_diameter_mm=10");
+  applyOverride(rod, "launch.revolution_rev_s=50");
+  applyOverride(rod, "launch.backspin=2");
+  // Axial spin 2 x 314 rad/s x (L / D) = 25 000 rad/s: over half the runaway limit.
+  CHECK(refusedField(rod) == "launch.backspin");
+  std::string said;
+  try {
+    scenarioFromJson(rod);
+  } catch (const ScenarioError& e) {
+    said = e.what();
+  }
+  const auto at = said.find("allowed at most ");
+  REQUIRE(at != std::string::npos);
+  const double largest = std::stod(said.substr(at + 16));
+  applyOverride(rod, "launch.backspin=" + std::to_string(largest));
+  applyOverride(rod, "run.substeps=1000");
+  CHECK(refusedField(rod) == "");
+  // Then the step must resolve that spin: the default 3 substeps do not.
+  applyOverride(rod, "run.substeps=3");
+  CHECK(refusedField(rod) == "run.substeps");
+  const Scenario fine = scenarioFromJson(demoDoc());
+  CHECK(numericsNeeds(fine).minSubsteps <= fine.run.substeps);
+}
+
+TEST_CASE("at the largest turn per step the integrator's rotation errs less than plain RK4", "[scenario][numerics]") {
+  // Our derivation (core/constants.hpp, maxTurnPerStep): plain RK4 on a
+  // uniform rotation of h w = 0.5 rad per step falls 3.18e-5 of the angle
+  // short (phase of 1 + z + z^2/2 + z^3/6 + z^4/24, z = i h w / 2). Our step
+  // renormalises the quaternion at each stage; on a free rod spinning about
+  // its own axis it must do no worse than plain RK4 (measured: 1.2e-5), so
+  // the limit keeps the error it was chosen for.
+  Scenario sc = defaultScenario();
+  Params p = makeParams(sc);
+  p.gravity = 0;
+  p.dragLinear = p.dragTransverse = 0;
+  const double spin = 1000;
+  p.timeStep = k::maxTurnPerStep / spin;
+  State s;
+  s.position = Vec3(0, 0, 1.0);  // far above the table: no contact
+  s.spinBody = Vec3(0, 0, spin);
+  const int steps = 6;  // 3 rad in all: below pi, so the angle reads back unambiguously
+  for (int i = 0; i < steps; ++i) step(p, s);
+  const double turned = 2 * std::atan2(s.orientation.z(), s.orientation.w());
+  const double exact = spin * p.timeStep * steps;
+  CHECK((exact - turned) / exact > 0);
+  CHECK((exact - turned) / exact < 3.18e-5);
 }
