@@ -7,6 +7,7 @@
 
 #include "app/cli.hpp"
 #include "core/calibrate.hpp"
+#include "core/export.hpp"
 #include "core/io.hpp"
 
 namespace dm::app {
@@ -50,7 +51,7 @@ int runCalibrate(CalibrateArgs& a) {
   const Scenario s = loadScenarioWithOverrides(a.scenario, a.sets);
   a.target.spots = a.spots;
   checkTarget(a.target);  // bad measurements are refused before any folder is made
-  prepareOutputDir(a.out, a.force);
+  checkOutputDir(a.out, a.force);
   CalibrationOptions options;
   options.launches = a.launches;
   options.threads = a.threads;
@@ -59,10 +60,9 @@ int runCalibrate(CalibrateArgs& a) {
     options.progress = [](int trials) { std::cerr << "\rtrial " << trials << std::flush; };
   const CalibrationResult r = calibrate(s, a.target, options);
   if (options.progress) std::cerr << "\n";
-  const std::string dir = a.out + "/";
-  writeFileAtomic(dir + "calibration.json", calibrationJson(r).dump(2) + "\n");
-  writeFileAtomic(dir + "calibrated_scenario.json", scenarioToJson(r.calibrated).dump(2) + "\n");
-  if (!a.quiet) printResult(r, dir);
+  writeOutputs(a.out, {{"calibration.json", jsonFileText(calibrationJson(r))},
+                       {"calibrated_scenario.json", jsonFileText(scenarioToJson(r.calibrated))}});
+  if (!a.quiet) printResult(r, a.out + "/");
   return exitOk;
 }
 
