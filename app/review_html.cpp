@@ -95,8 +95,9 @@ const char* palette[] = {"#4c72b0", "#dd8452", "#55a868", "#c44e52", "#8172b3", 
 // the plot area [50, 340] x [20, 180].
 struct Plot {
   static constexpr double left = 50, right = 340, top = 20, bottom = 180;
-  std::ostringstream body;
   std::string title, xLabel, yLabel;
+  std::ostringstream body;
+  Plot(std::string t, std::string x, std::string y) : title(std::move(t)), xLabel(std::move(x)), yLabel(std::move(y)) {}
   double x(double u) const { return left + u * (right - left); }  ///< u in 0..1
   double y(double u) const { return bottom - u * (bottom - top); }
   std::string svg() const {
@@ -129,10 +130,7 @@ struct Plot {
 
 // Share of launches per spot count at settle.
 std::string settleHistogram(const EnsembleSummary& e) {
-  Plot p;
-  p.title = "spots at settle (share of launches)";
-  p.xLabel = "spots seen (0: none or a ring)";
-  p.yLabel = "share";
+  Plot p("spots at settle (share of launches)", "spots seen (0: none or a ring)", "share");
   const auto& h = e.spotsAtSettle.launches;
   std::size_t total = 0;
   for (std::size_t n : h) total += n;
@@ -150,10 +148,7 @@ std::string settleHistogram(const EnsembleSummary& e) {
 
 // Stacked shares of spot counts for each window start.
 std::string spotsOverTime(const EnsembleSummary& e) {
-  Plot p;
-  p.title = "spots seen over time (share of launches)";
-  p.xLabel = "window start, s";
-  p.yLabel = "share";
+  Plot p("spots seen over time (share of launches)", "window start, s", "share");
   const std::size_t windows = std::max<std::size_t>(e.windowStarts.size(), 1);
   std::size_t counts = 0;
   for (const SpotHistogram& h : e.spotsOverTime) counts = std::max(counts, h.launches.size());
@@ -184,10 +179,7 @@ std::string spotsOverTime(const EnsembleSummary& e) {
 
 // Median and 10th-90th percentile bars of the times of a launch.
 std::string timeRanges(const EnsembleSummary& e) {
-  Plot p;
-  p.title = "settle, show and spin times (bar: 10th to 90th percentile, tick: median)";
-  p.xLabel = "time, s";
-  p.yLabel = "";
+  Plot p("settle, show and spin times (bar: 10th to 90th percentile, tick: median)", "time, s", "");
   const std::pair<const char*, const Percentiles*> rows[] = {
       {"settle", &e.settleTime}, {"show", &e.showTime}, {"spin", &e.spinTime}, {"rest", &e.restTime}};
   double top = 1e-9;
@@ -207,10 +199,7 @@ std::string timeRanges(const EnsembleSummary& e) {
 
 // Share of launches whose body stays within a table radius, against the radius.
 std::string holdCurve(const VariantReview& v) {
-  Plot p;
-  p.title = "share of launches kept on a round table, by its radius";
-  p.xLabel = "table radius, mm";
-  p.yLabel = "share kept";
+  Plot p("share of launches kept on a round table, by its radius", "table radius, mm", "share kept");
   std::vector<double> reach;
   const double half = std::hypot(v.scenario.body.length / 2, v.scenario.body.outerDiameter / 2);
   for (const LaunchOutcome& o : v.ensemble.outcomes)

@@ -125,20 +125,10 @@ assert dark > 100, "no text or drawing: %d dark samples" % dark
 PY
 
 # Bad input: exit 2, a message naming what is wrong, nothing written.
-refuse() {  # name, expected text, arguments...
-  local name=$1 text=$2
-  shift 2
-  set +e
-  "$bin" review "$@" --out "$work/$name" 2>"$work/$name.err" >/dev/null
-  local code=$?
-  set -e
-  [ "$code" -eq 2 ] || fail "$name: expected exit 2, got $code"
-  grep -q -- "$text" "$work/$name.err" || fail "$name: message lacks '$text': $(cat "$work/$name.err")"
-  [ ! -e "$work/$name" ] || fail "$name: made the output folder"
-}
-refuse missing "cannot read" "$work/no-such.json"
-refuse launches "--launches" "$src/assets/scenarios/demo.json" --launches 0
-refuse field "launch.tilt_deg" "$src/assets/scenarios/demo.json" "$work/short.json" --set launch.tilt_deg=120
+source "$src/tests/refusal.sh"
+expect_refusal missing "cannot read" review "$work/no-such.json"
+expect_refusal launches "--launches" review "$src/assets/scenarios/demo.json" --launches 0
+expect_refusal field "launch.tilt_deg" review "$src/assets/scenarios/demo.json" "$work/short.json" --set launch.tilt_deg=120
 # A folder that already holds a report is refused before any run, and left as it was.
 before=$(cksum "$work/r/review.html")
 set +e
