@@ -2,8 +2,8 @@
 // spin prediction, the visitor-launch ensemble, the observer's images, the
 // viewing and lighting checks, the dimension advisor's suggestion and the
 // cautions, written as one self-contained HTML page (images embedded,
-// plots as inline SVG) and review.json. The `review` subcommand and the
-// GUI's review button both call writeReview().
+// plots as inline SVG) and review.json. writeReview() is the one entry
+// point: the `review` subcommand calls it, and so should any other front end.
 #pragma once
 #include <cstdint>
 #include <functional>
