@@ -214,36 +214,6 @@ TEST_CASE("overrides (--set) reach analysis fields and trace point items", "[sce
                     "analysis.trace_points.3.angle_deg: no element 3 here");
 }
 
-// The launch spread of the ensembles: per parameter a kind, bounds, mean and
-// sd in file units, checked by name like every other field.
-TEST_CASE("launch spread fields read in file units and check their bounds", "[scenario]") {
-  json d = demoDoc();
-  d["launch_spread"] = {{"revolution", {{"kind", "uniform"}, {"min_rev_s", 5.0}, {"max_rev_s", 11.0}}},
-                        {"tilt", {{"kind", "normal"}, {"min_deg", 0.0}, {"max_deg", 10.0}, {"mean_deg", 4.0}, {"sd_deg", 2.0}}},
-                        {"pressed_end_a_share", 0.8}};
-  const Scenario s = scenarioFromJson(d);
-  CHECK(s.launchSpread.revolution.kind == SpreadKind::Uniform);
-  CHECK(s.launchSpread.revolution.min == Approx(5 * k::twoPi));
-  CHECK(s.launchSpread.tilt.kind == SpreadKind::Normal);
-  CHECK(s.launchSpread.tilt.mean == Approx(4 * k::degree));
-  CHECK(s.launchSpread.pressedEndAShare == 0.8);
-  CHECK(scenarioToJson(scenarioFromJson(scenarioToJson(s))) == scenarioToJson(s));
-
-  json bad = d;
-  bad["launch_spread"]["revolution"]["max_rev_s"] = 4.0;
-  CHECK(refusal(bad) == "launch_spread.revolution.max_rev_s: value 4 is below launch_spread.revolution.min_rev_s (5); "
-                        "allowed 5 to 50 rev/s");
-  bad = d;
-  bad["launch_spread"]["tilt"]["mean_deg"] = 12.0;
-  CHECK(refusedField(bad) == "launch_spread.tilt.mean_deg");
-  bad = d;
-  bad["launch_spread"]["tilt"]["kind"] = "lognormal";
-  CHECK(refusedField(bad) == "launch_spread.tilt.kind");
-  bad = d;
-  bad["launch_spread"]["pressed_end_a_share"] = 1.5;
-  CHECK(refusedField(bad) == "launch_spread.pressed_end_a_share");
-}
-
 TEST_CASE("hand edits: a repeated key, deep nesting and a group given as a value are refused with their path",
           "[scenario][parse]") {
   auto refusedText = [](const std::string& text) {
@@ -422,4 +392,34 @@ TEST_CASE("at the largest turn per step the integrator's rotation errs less than
   const double exact = spin * p.timeStep * steps;
   CHECK((exact - turned) / exact > 0);
   CHECK((exact - turned) / exact < 3.18e-5);
+}
+
+// The launch spread of the ensembles: per parameter a kind, bounds, mean and
+// sd in file units, checked by name like every other field.
+TEST_CASE("launch spread fields read in file units and check their bounds", "[scenario]") {
+  json d = demoDoc();
+  d["launch_spread"] = {{"revolution", {{"kind", "uniform"}, {"min_rev_s", 5.0}, {"max_rev_s", 11.0}}},
+                        {"tilt", {{"kind", "normal"}, {"min_deg", 0.0}, {"max_deg", 10.0}, {"mean_deg", 4.0}, {"sd_deg", 2.0}}},
+                        {"pressed_end_a_share", 0.8}};
+  const Scenario s = scenarioFromJson(d);
+  CHECK(s.launchSpread.revolution.kind == SpreadKind::Uniform);
+  CHECK(s.launchSpread.revolution.min == Approx(5 * k::twoPi));
+  CHECK(s.launchSpread.tilt.kind == SpreadKind::Normal);
+  CHECK(s.launchSpread.tilt.mean == Approx(4 * k::degree));
+  CHECK(s.launchSpread.pressedEndAShare == 0.8);
+  CHECK(scenarioToJson(scenarioFromJson(scenarioToJson(s))) == scenarioToJson(s));
+
+  json bad = d;
+  bad["launch_spread"]["revolution"]["max_rev_s"] = 4.0;
+  CHECK(refusal(bad) == "launch_spread.revolution.max_rev_s: value 4 is below launch_spread.revolution.min_rev_s (5); "
+                        "allowed 5 to 50 rev/s");
+  bad = d;
+  bad["launch_spread"]["tilt"]["mean_deg"] = 12.0;
+  CHECK(refusedField(bad) == "launch_spread.tilt.mean_deg");
+  bad = d;
+  bad["launch_spread"]["tilt"]["kind"] = "lognormal";
+  CHECK(refusedField(bad) == "launch_spread.tilt.kind");
+  bad = d;
+  bad["launch_spread"]["pressed_end_a_share"] = 1.5;
+  CHECK(refusedField(bad) == "launch_spread.pressed_end_a_share");
 }
