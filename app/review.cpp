@@ -71,7 +71,8 @@ void adviseOn(VariantReview& v) {
   int n = int(std::lround(v.scenario.body.length / v.scenario.body.outerDiameter));
   if (!v.steady.empty() && v.steady.front().result.found) n = v.steady.front().result.spin.nearestSpots;
   v.adviceSpots = std::clamp(n, int(advise_input::spots.min), int(advise_input::spots.max));
-  v.adviceFrom = v.steady.size() > 1 ? v.steady[v.steady.size() - 3].precession : v.minPrecession;
+  // The last three steady rows are the multiples of the lowest steady precession.
+  v.adviceFrom = v.steady[v.steady.size() - 3].precession;
   v.adviceTo = v.steady.back().precession;
   try {
     v.advice = adviseLength(body, v.adviceSpots, v.adviceFrom, v.adviceTo);
