@@ -24,6 +24,7 @@ int runCli(int argc, char** argv, GuiRunner gui) {
   addParamsCommand(app, commands);
   addEnsembleCommand(app, commands);
   addCalibrateCommand(app, commands);
+  addReviewCommand(app, commands);
   addGuiCommand(app, commands, std::move(gui));
   try {
     app.parse(argc, argv);

@@ -33,6 +33,7 @@ void addExposeCommand(CLI::App& app, Commands& commands);
 void addParamsCommand(CLI::App& app, Commands& commands);
 void addEnsembleCommand(CLI::App& app, Commands& commands);
 void addCalibrateCommand(CLI::App& app, Commands& commands);
+void addReviewCommand(CLI::App& app, Commands& commands);
 
 /// `steady`: the analytic steady spin at a precession rate or a tilt (app/cmd_steady.cpp).
 void addSteadyCommand(CLI::App& app, Commands& commands);

@@ -7,6 +7,7 @@
 
 #include "app/cli.hpp"
 #include "core/calibrate.hpp"
+#include "core/export.hpp"
 #include "core/io.hpp"
 
 namespace dm::app {
@@ -50,7 +51,6 @@ int runCalibrate(CalibrateArgs& a) {
   const Scenario s = loadScenarioWithOverrides(a.scenario, a.sets);
   a.target.spots = a.spots;
   checkTarget(a.target);  // bad measurements are refused before any folder is made
-  // Refuse a folder that would mix results before the run; create it only to write.
   checkOutputDir(a.out, a.force);
   CalibrationOptions options;
   options.launches = a.launches;
@@ -60,10 +60,9 @@ int runCalibrate(CalibrateArgs& a) {
     options.progress = [](int trials) { std::cerr << "\rtrial " << trials << std::flush; };
   const CalibrationResult r = calibrate(s, a.target, options);
   if (options.progress) std::cerr << "\n";
-  const std::string dir = a.out + "/";
   writeOutputs(a.out, {{"calibration.json", jsonFileText(calibrationJson(r))},
                        {"calibrated_scenario.json", jsonFileText(scenarioToJson(r.calibrated))}});
-  if (!a.quiet) printResult(r, dir);
+  if (!a.quiet) printResult(r, a.out + "/");
   return exitOk;
 }
 

@@ -6,6 +6,7 @@
 
 #include "app/cli.hpp"
 #include "core/ensemble.hpp"
+#include "core/export.hpp"
 #include "core/io.hpp"
 
 namespace dm::app {
@@ -54,17 +55,15 @@ int runEnsembleCommand(const EnsembleArgs& a) {
     s.run.duration = *a.duration;
     validate(s);  // names run.duration_s and its range when out of it
   }
-  // Refuse a folder that would mix results before the run; create it only to write.
-  checkOutputDir(a.out, a.force);
+  checkOutputDir(a.out, a.force);  // refuse a folder that would mix results before the long run
   EnsembleOptions options;
   options.launches = a.launches;
   options.threads = a.threads;
   options.seed = a.seed;
   if (!a.quiet && ::isatty(STDERR_FILENO)) options.progress = drawProgress;
   const EnsembleResult r = runEnsemble(s, options);
-  const std::string dir = a.out + "/";
   writeOutputs(a.out, {{"launches.csv", launchesCsv(r)}, {"ensemble.json", jsonFileText(ensembleJson(r))}});
-  if (!a.quiet) printSummary(r, dir);
+  if (!a.quiet) printSummary(r, a.out + "/");
   return exitOk;
 }
 

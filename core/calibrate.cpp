@@ -283,21 +283,17 @@ CalibrationResult calibrate(const Scenario& s, const CalibrationTarget& target, 
 }
 
 json calibrationJson(const CalibrationResult& r) {
-  const auto checked = [](double v) {
-    if (!std::isfinite(v)) throw std::domain_error("a non-finite number reached calibration.json");
-    return v;
-  };
   json measured = {{"settle_time_s", r.target.settleTime}, {"spin_time_s", r.target.spinTime},
                    {"spots", r.target.spots ? json(*r.target.spots) : json(nullptr)}, {"timing_s", r.target.timing}};
-  json predicted = {{"settle_time_s", checked(r.predictedSettle)}, {"spin_time_s", checked(r.predictedSpin)},
+  json predicted = {{"settle_time_s", r.predictedSettle}, {"spin_time_s", r.predictedSpin},
                     {"spots", r.predictedSpots ? json(*r.predictedSpots) : json(nullptr)},
                     {"unsettled_launches", r.unsettled}};
-  json residual = {{"settle_time_s", checked(r.settleResidual)}, {"spin_time_s", checked(r.spinResidual)},
+  json residual = {{"settle_time_s", r.settleResidual}, {"spin_time_s", r.spinResidual},
                    {"spots", r.spotsResidual ? json(*r.spotsResidual) : json(nullptr)},
-                   {"chi_square", checked(r.chiSquare)}};
+                   {"chi_square", r.chiSquare}};
   json fit = {{"friction_kinetic", fittedJson(r.frictionKinetic)},
               {"rolling_resistance", fittedJson(r.rollingResistance)},
-              {"friction_static", checked(r.frictionStatic)}};
+              {"friction_static", r.frictionStatic}};
   return {{"scenario", r.calibrated.name}, {"measured", measured}, {"fitted", fit}, {"predicted", predicted},
           {"residual", residual}, {"launches", r.launches}, {"seed", r.seed}, {"trials", r.trials}};
 }

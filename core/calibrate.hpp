@@ -83,7 +83,7 @@ struct CalibrationResult {
 /// ScenarioError for a bad target and std::invalid_argument for bad options.
 CalibrationResult calibrate(const Scenario& s, const CalibrationTarget& target, const CalibrationOptions& options);
 
-/// calibration.json contents.
+/// calibration.json contents (write with jsonFileText, which refuses NaN).
 nlohmann::json calibrationJson(const CalibrationResult& r);
 
 }  // namespace dm

@@ -121,7 +121,7 @@ EnsembleResult runEnsemble(const Scenario& s, const EnsembleOptions& options);
 /// where a value does not exist (no settle, no rest, never at the edge).
 std::string launchesCsv(const EnsembleResult& r);
 
-/// ensemble.json contents.
+/// ensemble.json contents (write with jsonFileText, which refuses NaN).
 nlohmann::json ensembleJson(const EnsembleResult& r);
 
 }  // namespace dm

@@ -13,22 +13,14 @@ namespace {
 
 using nlohmann::json;
 
-// A number for a JSON output; NaN and infinity never reach a file.
-json finite(double v) {
-  if (!std::isfinite(v)) throw std::domain_error("a non-finite number reached ensemble.json");
-  return v;
-}
-
-json optionalNumber(const std::optional<double>& v, double scale = 1) {
-  return v ? finite(*v * scale) : json(nullptr);
-}
+json optionalNumber(const std::optional<double>& v, double scale = 1) { return v ? json(*v * scale) : json(nullptr); }
 
 json percentilesJson(const Percentiles& p, double scale) {
   return {{"launches", p.count},
-          {"p10", finite(p.p10 * scale)},
-          {"median", finite(p.median * scale)},
-          {"p90", finite(p.p90 * scale)},
-          {"max", finite(p.max * scale)}};
+          {"p10", p.p10 * scale},
+          {"median", p.median * scale},
+          {"p90", p.p90 * scale},
+          {"max", p.max * scale}};
 }
 
 json histogramJson(const SpotHistogram& h) {
@@ -41,21 +33,21 @@ json spreadJson(const Spread& d, double toFile) {
   const char* kind = d.kind == SpreadKind::Uniform ? "uniform" : d.kind == SpreadKind::Normal ? "normal" : "fixed";
   json j = {{"kind", kind}};
   if (d.kind == SpreadKind::Fixed) return j;
-  j["min"] = finite(d.min * toFile);
-  j["max"] = finite(d.max * toFile);
+  j["min"] = d.min * toFile;
+  j["max"] = d.max * toFile;
   if (d.kind == SpreadKind::Normal) {
-    j["mean"] = finite(d.mean * toFile);
-    j["sd"] = finite(d.sd * toFile);
+    j["mean"] = d.mean * toFile;
+    j["sd"] = d.sd * toFile;
   }
   return j;
 }
 
 json tableJson(const TableCheck& t) {
-  return {{"radius_mm", finite(t.radius * 1e3)},
-          {"reaches_edge_share", finite(t.reachesEdgeShare)},
-          {"leaves_share", finite(t.leavesShare)},
-          {"radius_holding_all_mm", finite(t.radiusHoldingAll * 1e3)},
-          {"radius_holding_90_percent_mm", finite(t.radiusHolding90 * 1e3)},
+  return {{"radius_mm", t.radius * 1e3},
+          {"reaches_edge_share", t.reachesEdgeShare},
+          {"leaves_share", t.leavesShare},
+          {"radius_holding_all_mm", t.radiusHoldingAll * 1e3},
+          {"radius_holding_90_percent_mm", t.radiusHolding90 * 1e3},
           {"lip_height_mm", optionalNumber(t.lipHeight, 1e3)},
           {"lip_rule", "centre height when the body first reaches the edge plus v^2/(2 g) of the centre's speed then, "
                        "at least the outer radius; our rule, no source"}};
@@ -100,20 +92,20 @@ json ensembleJson(const EnsembleResult& r) {
   j["scenario"] = r.scenario;
   j["launches"] = e.launches;
   j["seed"] = r.seed;
-  j["duration_s"] = finite(r.duration);
+  j["duration_s"] = r.duration;
   j["launch_spread"] = {{"revolution_rev_s", spreadJson(r.spread.revolution, 1 / k::twoPi)},
                         {"backspin", spreadJson(r.spread.backspin, 1)},
                         {"tilt_deg", spreadJson(r.spread.tilt, 1 / k::degree)},
                         {"drift_mm_s", spreadJson(r.spread.drift, 1e3)},
-                        {"pressed_end_a_share", finite(r.spread.pressedEndAShare)}};
+                        {"pressed_end_a_share", r.spread.pressedEndAShare}};
   j["faults"] = e.faults;
-  j["visible_end_share"] = {{"A", finite(e.visibleShareA)}, {"B", finite(e.visibleShareB)}, {"none", finite(e.visibleShareNone)}};
-  j["pressed_end_visible_share"] = finite(e.pressedVisibleShare);
+  j["visible_end_share"] = {{"A", e.visibleShareA}, {"B", e.visibleShareB}, {"none", e.visibleShareNone}};
+  j["pressed_end_visible_share"] = e.pressedVisibleShare;
   j["spots_at_settle"] = histogramJson(e.spotsAtSettle);
   json overTime = json::array();
   for (std::size_t i = 0; i < e.windowStarts.size(); ++i)
-    overTime.push_back({{"start_s", finite(e.windowStarts[i])}, {"histogram", histogramJson(e.spotsOverTime[i])}});
-  j["spots_over_time"] = {{"window_s", finite(e.windowLength)}, {"window_step_s", finite(e.windowStep)}, {"windows", overTime}};
+    overTime.push_back({{"start_s", e.windowStarts[i]}, {"histogram", histogramJson(e.spotsOverTime[i])}});
+  j["spots_over_time"] = {{"window_s", e.windowLength}, {"window_step_s", e.windowStep}, {"windows", overTime}};
   j["settle_time_s"] = percentilesJson(e.settleTime, 1);
   j["show_s"] = percentilesJson(e.showTime, 1);
   j["spin_time_s"] = percentilesJson(e.spinTime, 1);

@@ -1,7 +1,7 @@
 #include "core/scenario.hpp"
 
-#include <charconv>
 #include <algorithm>
+#include <charconv>
 #include <cmath>
 #include <cstdio>
 #include <fstream>
@@ -346,6 +346,23 @@ std::vector<Field<Scenario>> buildScenarioFields() {
                         "modulation frequency (rectified mains: twice the line frequency)"));
   f.push_back(number<S>("lighting.flicker_depth", "-", 0, 1, 1,
                         [](S& s) -> double& { return s.lighting.flickerDepth; }, "modulation depth (Michelson)"));
+  f.push_back(number<S>("lighting.strobe_flashes_per_s", "1/s", 0, 100, 1,
+                        [](S& s) -> double& { return s.lighting.strobeRate; },
+                        "flash rate of a strobe or flashing light in the exhibit, 0 for none (photosensitivity check)"));
+  // viewing positions of the review's viewing check
+  f.push_back(number<S>("viewing.table_height_mm", "mm", 200, 1500, mm,
+                        [](S& s) -> double& { return s.viewing.tableHeight; }, "floor to table top"));
+  f.push_back(number<S>("viewing.distance_mm", "mm", 0, 5000, mm, [](S& s) -> double& { return s.viewing.distance; },
+                        "horizontal distance of the viewers' eyes from the spin centre"));
+  f.push_back(number<S>("viewing.standing_eye_height_mm", "mm", 300, 2500, mm,
+                        [](S& s) -> double& { return s.viewing.standingEyeHeight; },
+                        "eye height above the floor of a standing adult (from memory: about 1570)"));
+  f.push_back(number<S>("viewing.child_eye_height_mm", "mm", 300, 2500, mm,
+                        [](S& s) -> double& { return s.viewing.childEyeHeight; },
+                        "eye height above the floor of a child of six to eight (from memory: about 1000)"));
+  f.push_back(number<S>("viewing.seated_eye_height_mm", "mm", 300, 2500, mm,
+                        [](S& s) -> double& { return s.viewing.seatedEyeHeight; },
+                        "eye height above the floor of a seated visitor or wheelchair user (from memory: about 1090 to 1295)"));
   // analysis of traces, stops and spots
   f.push_back(number<S>("analysis.window_s", "s", 0.05, 60, 1, [](S& s) -> double& { return s.analysis.window; },
                         "length of each spot-statistics window"));

@@ -120,6 +120,20 @@ struct LightingSpec {
   Waveform flicker = Waveform::None; ///< light modulation waveform
   double flickerFrequency = 100.0;   ///< modulation frequency, Hz (rectified mains: twice the line frequency)
   double flickerDepth = 0.0;         ///< modulation depth (Michelson), 0..1
+  double strobeRate = 0.0;           ///< flashes per second of a strobe or flashing light in the exhibit, 1/s (0 = none)
+};
+
+/// Where visitors stand or sit to look at the table, for the viewing check.
+/// Eye heights are above the floor; defaults are rounded typical values
+/// (from memory, after anthropometric tables and accessible exhibit design
+/// guidance such as the Smithsonian Guidelines for Accessible Exhibition
+/// Design; check them for the venue's visitors).
+struct ViewingSpec {
+  double tableHeight = 0.76;          ///< floor to table top, m
+  double distance = 0.6;              ///< horizontal distance of the viewers' eyes from the spin centre, m
+  double standingEyeHeight = 1.57;    ///< standing adult, m
+  double childEyeHeight = 1.0;        ///< child of about six to eight years, m
+  double seatedEyeHeight = 1.19;      ///< visitor seated or using a wheelchair, m
 };
 
 /// A point on one end's outer rim edge whose path and stops are traced, in
@@ -153,6 +167,7 @@ struct Scenario {
   ObserverSpec observer;
   LightingSpec lighting;
   AnalysisSpec analysis;
+  ViewingSpec viewing;
 };
 
 /// The body's geometry and mass, derived from the scenario.

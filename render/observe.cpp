@@ -90,7 +90,7 @@ double finite(double v) {
 nlohmann::json spotsJson(const Scenario& s, const Observation& seen, const ExposureResult& r) {
   using json = nlohmann::json;
   json spots = json::array();
-  for (const Spot& spot : r.spots.spots)
+  for (const ImageSpot& spot : r.spots.spots)
     spots.push_back({{"azimuth_deg", finite(spot.azimuth / k::degree)},
                      {"radius_mm", finite(spot.radius * 1e3)},
                      {"contrast", finite(spot.contrast)},

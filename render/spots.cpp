@@ -216,7 +216,7 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
       weight += c;
       moment += c * j;
     }
-    Spot spot;
+    ImageSpot spot;
     spot.azimuth = wrapAngle(width * (moment / weight));
     spot.contrast = contrast[std::size_t(peak % n)];
     spot.width = width * (last - first + 1);
@@ -224,7 +224,7 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
     spot.radius = peakRadius(img, camera, ring, spot.azimuth, width, report.medianLuminance, sign, step);
     report.spots.push_back(spot);
   }
-  std::sort(report.spots.begin(), report.spots.end(), [](const Spot& a, const Spot& b) { return a.azimuth < b.azimuth; });
+  std::sort(report.spots.begin(), report.spots.end(), [](const ImageSpot& a, const ImageSpot& b) { return a.azimuth < b.azimuth; });
   return report;
 }
 

@@ -32,8 +32,10 @@ Ring ringOfRun(const Trajectory& trajectory, const Cylinder& body, End raised, d
 /// Relative luminance of linear sRGB (ITU-R BT.709 primaries, IEC 61966-2-1): 0.2126 R + 0.7152 G + 0.0722 B.
 double luminance(const Rgb& c);
 
-/// One spot on the ring.
-struct Spot {
+/// One spot found on the ring of an image (named apart from the pattern
+/// analysis' Spot in core/pattern.hpp: one name for two types broke the
+/// one-definition rule once both were linked).
+struct ImageSpot {
   double azimuth = 0;   ///< about the ring's centre, from lab x towards lab y, rad in [0, 2 pi)
   double radius = 0;    ///< distance from the ring's centre where the contrast peaks, m
   double contrast = 0;  ///< Weber contrast (L - L_median) / L_median at the peak: negative for a dark spot
@@ -46,7 +48,7 @@ struct SpotReport {
   double threshold = 0.02;     ///< Weber contrast a spot must exceed
   double medianLuminance = 0;  ///< the ring's median relative luminance
   double strongestContrast = 0;  ///< the largest |contrast| anywhere on the ring, spot or not
-  std::vector<Spot> spots;     ///< in order of azimuth
+  std::vector<ImageSpot> spots;  ///< in order of azimuth
 };
 
 /// Finds the spots along `ring` in an image seen through `camera`. The ring

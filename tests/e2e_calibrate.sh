@@ -33,19 +33,9 @@ assert abs(s["surface"]["rolling_resistance"] - c["fitted"]["rolling_resistance"
 PY
 
 # Bad measurements: exit 2, the measurement named, nothing written.
-refuse() {  # name, expected text, arguments...
-  local name=$1 text=$2
-  shift 2
-  set +e
-  "$bin" calibrate "$demo" --launches 1 --out "$work/$name" "$@" 2>"$work/$name.err" >/dev/null
-  local code=$?
-  set -e
-  [ "$code" -eq 2 ] || fail "$name: expected exit 2, got $code"
-  grep -q -- "$text" "$work/$name.err" || fail "$name: message lacks '$text': $(cat "$work/$name.err")"
-  [ ! -e "$work/$name" ] || fail "$name: made the output folder"
-}
-refuse order "spin_time_s" --settle-s 3 --spin-s 2
-refuse negative "settle_time_s" --settle-s -1 --spin-s 2
-refuse spots "spots" --settle-s 0.5 --spin-s 2 --spots 99
-refuse missing "--spin-s" --settle-s 0.5
+source "$src/tests/refusal.sh"
+expect_refusal order "spin_time_s" calibrate "$demo" --launches 1 --settle-s 3 --spin-s 2
+expect_refusal negative "settle_time_s" calibrate "$demo" --launches 1 --settle-s -1 --spin-s 2
+expect_refusal spots "spots" calibrate "$demo" --launches 1 --settle-s 0.5 --spin-s 2 --spots 99
+expect_refusal missing "--spin-s" calibrate "$demo" --launches 1 --settle-s 0.5
 echo "e2e_calibrate: ok"

@@ -41,19 +41,9 @@ assert all(sum(h["launches"] for h in w["histogram"]) == 6 for w in windows)
 PY
 
 # Bad input: exit 2, a message naming what is wrong, nothing written.
-expect_refusal() {  # name, expected text, arguments...
-  local name=$1 text=$2
-  shift 2
-  set +e
-  "$bin" ensemble "$@" --out "$work/$name" 2>"$work/$name.err" >/dev/null
-  local code=$?
-  set -e
-  [ "$code" -eq 2 ] || fail "$name: expected exit 2, got $code"
-  grep -q -- "$text" "$work/$name.err" || fail "$name: message lacks '$text': $(cat "$work/$name.err")"
-  [ ! -e "$work/$name" ] || [ -z "$(ls -A "$work/$name")" ] || fail "$name: wrote files"
-}
-expect_refusal zero "--launches" "$demo" --launches 0
-expect_refusal spread "launch_spread.revolution.max_rev_s" "$demo" --set launch_spread.revolution.max_rev_s=2
-expect_refusal duration "run.duration_s" "$demo" --duration-s -1
-expect_refusal missing "cannot read" "$work/no-such.json"
+source "$src/tests/refusal.sh"
+expect_refusal zero "--launches" ensemble "$demo" --launches 0
+expect_refusal spread "launch_spread.revolution.max_rev_s" ensemble "$demo" --set launch_spread.revolution.max_rev_s=2
+expect_refusal duration "run.duration_s" ensemble "$demo" --duration-s -1
+expect_refusal missing "cannot read" ensemble "$work/no-such.json"
 echo "e2e_ensemble: ok"

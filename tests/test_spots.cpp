@@ -70,9 +70,9 @@ SpotReport spotsOf(Scenario s, double revolutions = 3) {
 }
 
 // The dark spots tinted like end A's red patch: the marks the visitor reads.
-std::vector<Spot> redSpots(const SpotReport& r) {
-  std::vector<Spot> out;
-  for (const Spot& s : r.spots)
+std::vector<ImageSpot> redSpots(const SpotReport& r) {
+  std::vector<ImageSpot> out;
+  for (const ImageSpot& s : r.spots)
     if (s.contrast < 0 && s.colour.r > 1.1 * s.colour.g && s.colour.r > s.colour.b) out.push_back(s);
   return out;
 }
@@ -142,15 +142,15 @@ TEST_CASE("steady spins show the spots their length ratio predicts", "[spots]") 
     const Cylinder c = cylinderOf(steadyScenario(length, 10).body);
     const Scenario s = steadyScenario(length, 1.03 * minSteadyPrecession(c) / k::twoPi);
     const SpotReport r = spotsOf(s);
-    const std::vector<Spot> red = redSpots(r);
+    const std::vector<ImageSpot> red = redSpots(r);
     INFO("L = " << length << " m, N = " << observeSteady(s).steady->spotsPerRev << ", spots " << r.spots.size());
     REQUIRE(int(red.size()) == count);
-    for (const Spot& spot : red) {
+    for (const ImageSpot& spot : red) {
       CHECK(spot.contrast < -0.04);
       CHECK(spot.radius == Approx(r.ring.radius).margin(0.004));
     }
     // No spot in end B's blue: the lowered end's marks stop on the table, out of sight.
-    for (const Spot& spot : r.spots) CHECK(spot.colour.b <= spot.colour.r);
+    for (const ImageSpot& spot : r.spots) CHECK(spot.colour.b <= spot.colour.r);
     // Evenly spaced, 360/N degrees apart (within the drift over the exposure).
     for (std::size_t i = 0; i < red.size(); ++i) {
       const double gap = wrapAngle(red[(i + 1) % red.size()].azimuth - red[i].azimuth) / k::degree;
@@ -162,17 +162,17 @@ TEST_CASE("steady spins show the spots their length ratio predicts", "[spots]") 
 TEST_CASE("half-integer N doubles the spots and weakens them; an irrational N washes them out", "[spots]") {
   const double length = 0.064;
   const double lowest = minSteadyPrecession(cylinderOf(steadyScenario(length, 10).body)) / k::twoPi;
-  const std::vector<Spot> four = redSpots(spotsOf(steadyScenario(length, 1.03 * lowest)));
+  const std::vector<ImageSpot> four = redSpots(spotsOf(steadyScenario(length, 1.03 * lowest)));
   REQUIRE(four.size() == 4);
   // N = 3.5: the mark stops at 7 places, each every other revolution (4 whole turns).
   const Scenario half = steadyScenario(length, precessionForSpots(length, 3.5));
   const SpotReport sevenReport = spotsOf(half, 4);
-  const std::vector<Spot> seven = redSpots(sevenReport);
+  const std::vector<ImageSpot> seven = redSpots(sevenReport);
   INFO("N = " << observeSteady(half).steady->spotsPerRev << ", spots " << sevenReport.spots.size());
   REQUIRE(seven.size() == 7);
   double weakest4 = 1, strongest7 = 0;
-  for (const Spot& s : four) weakest4 = std::min(weakest4, std::abs(s.contrast));
-  for (const Spot& s : seven) strongest7 = std::max(strongest7, std::abs(s.contrast));
+  for (const ImageSpot& s : four) weakest4 = std::min(weakest4, std::abs(s.contrast));
+  for (const ImageSpot& s : seven) strongest7 = std::max(strongest7, std::abs(s.contrast));
   CHECK(strongest7 < weakest4);
   // N = 3.618 (far from p/q with small q): over six turns the stops spread round the ring.
   const SpotReport none = spotsOf(steadyScenario(length, precessionForSpots(length, 3.618)), 6);
@@ -184,10 +184,10 @@ TEST_CASE("spot contrast seen from above and from visitors' eyes", "[spots]") {
   const double length = 0.064;
   Scenario s = steadyScenario(length, 1.03 * minSteadyPrecession(cylinderOf(steadyScenario(length, 10).body)) / k::twoPi);
   auto meanRed = [](const SpotReport& r, std::size_t& count) {
-    const std::vector<Spot> red = redSpots(r);
+    const std::vector<ImageSpot> red = redSpots(r);
     count = red.size();
     double mean = 0;
-    for (const Spot& spot : red) mean += std::abs(spot.contrast) / double(red.size());
+    for (const ImageSpot& spot : red) mean += std::abs(spot.contrast) / double(red.size());
     return mean;
   };
   std::size_t count = 0;

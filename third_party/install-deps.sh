@@ -15,7 +15,7 @@ packages=(
   libglfw3-dev libepoxy-dev libimgui-dev libglm-dev
   libegl-dev libegl1-mesa-dev libgl1-mesa-dri mesa-utils fonts-dejavu-core
   # tests, benchmarks, headless display, report checks
-  catch2 libbenchmark-dev xvfb xauth tidy
+  catch2 libbenchmark-dev xvfb xauth tidy chromium
   # sanitiser and fuzzing stage
   clang libclang-rt-14-dev
 )

@@ -6,7 +6,7 @@
 #include <cstdio>
 
 #include "core/constants.hpp"
-#include "core/flick.hpp"
+#include "core/launch_spread.hpp"
 #include "core/io.hpp"
 #include "core/launch.hpp"
 #include "render/flicker.hpp"
@@ -140,7 +140,7 @@ EditOutcome Session::replace(const Scenario& next) {
 
 EditOutcome Session::flick() {
   Scenario next = scenario_;
-  next.launch = visitorFlick(scenario_.launch, flicks_);
+  next.launch = drawLaunch(scenario_.launch, scenario_.launchSpread, scenario_.launch.seed, flicks_);
   const EditOutcome out = commit(next, {true, false, false});
   if (out.accepted) ++flicks_;
   return out;

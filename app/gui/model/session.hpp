@@ -115,7 +115,7 @@ class Session {
   EditOutcome removeTracePoint(std::size_t index);
   /// Replaces the whole scenario (preset, flick); restarts when the motion changes.
   EditOutcome replace(const Scenario& next);
-  /// Replaces the launch with the next visitor flick drawn from the seed.
+  /// Replaces the launch with the next visitor flick drawn from the scenario's launch spread and seed.
   EditOutcome flick();
   /// How many flicks have been drawn since the scenario was opened.
   std::uint64_t flickCount() const { return flicks_; }
