@@ -29,7 +29,6 @@ constexpr std::array<double, 5> glWeight{0.5688888888888889, 0.4786286704993665,
 double EyeFilter::impulse(double t) const { return xi() * (stage(t, tau1, n1) - zeta * stage(t, tau2, n2)); }
 
 std::complex<double> EyeFilter::transfer(double f) const {
-  const std::complex<double> one(1.0, 0.0);
   const std::complex<double> s1(1.0, k::twoPi * f * tau1), s2(1.0, k::twoPi * f * tau2);
   return xi() * (std::pow(s1, -double(n1)) - zeta * std::pow(s2, -double(n2)));
 }
