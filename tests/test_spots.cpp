@@ -133,7 +133,7 @@ TEST_CASE("the ring of a run is the circle of the raised end's top points", "[sp
   CHECK(ring.centre.z() == Approx(m.spin.ceilingHeight).margin(1e-7));
 }
 
-TEST_CASE("steady spins show the spots their length ratio predicts", "[spots]") {
+TEST_CASE("steady spins show the spots their length ratio predicts", "[spots][slow]") {
   // Common practice, no source: a tube four times as long as its diameter
   // shows four spots, three times as long shows three; the raised end's
   // mark is the one seen. Just above the lowest precession the tilt is
@@ -180,7 +180,7 @@ TEST_CASE("half-integer N doubles the spots and weakens them; an irrational N wa
   CHECK(none.spots.empty());
 }
 
-TEST_CASE("spot contrast seen from above and from visitors' eyes", "[spots]") {
+TEST_CASE("spot contrast seen from above and from visitors' eyes", "[spots][slow]") {
   const double length = 0.064;
   Scenario s = steadyScenario(length, 1.03 * minSteadyPrecession(cylinderOf(steadyScenario(length, 10).body)) / k::twoPi);
   auto meanRed = [](const SpotReport& r, std::size_t& count) {
