@@ -83,19 +83,34 @@ Rgb ringColour(const Image& img, const Camera& camera, const Ring& ring, double 
   return n > 0 ? Rgb{sum.r / n, sum.g / n, sum.b / n} : Rgb{};
 }
 
-// Where across the ring, within a third of its radius, the contrast at
-// azimuth `phi` peaks with the spot's sign.
-double peakRadius(const Image& img, const Camera& camera, const Ring& ring, double phi, double width, double median,
-                  double sign, double step) {
-  double best = ring.radius, bestValue = -1e300;
+// The radii a spot's radial profile is read at: within a third of the
+// ring's radius either side, one footprint `step` apart.
+std::vector<double> profileRadii(const Ring& ring, double step) {
+  std::vector<double> radii;
   const int reach = int(std::ceil(ring.radius / 3 / step));
-  for (int k = -reach; k <= reach; ++k) {
-    const double r = ring.radius + k * step;
-    if (r <= 0) continue;
-    const double c = sign * (luminance(ringColour(img, camera, ring, phi, width, r, step)) / median - 1.0);
+  for (int k = -reach; k <= reach; ++k)
+    if (ring.radius + k * step > 0) radii.push_back(ring.radius + k * step);
+  return radii;
+}
+
+// The median luminance of the circle of each radius, in `bins` bins: the
+// local background at that distance from the centre. A spot's place across
+// the ring is judged against it, not against the ring's own median, or the
+// darker table beyond the swept disc would pass for the peak of a dark spot.
+std::vector<double> circleMedians(const Image& img, const Camera& camera, const Ring& ring,
+                                  const std::vector<double>& radii, int bins, double step);
+
+// Where across the ring the contrast at azimuth `phi` against the local
+// background peaks with the spot's sign.
+double peakRadius(const Image& img, const Camera& camera, const Ring& ring, double phi, double width, double sign,
+                  double step, const std::vector<double>& radii, const std::vector<double>& medians) {
+  double best = ring.radius, bestValue = -1e300;
+  for (std::size_t i = 0; i < radii.size(); ++i) {
+    if (!(medians[i] > 0)) continue;
+    const double c = sign * (luminance(ringColour(img, camera, ring, phi, width, radii[i], step)) / medians[i] - 1.0);
     if (c > bestValue) {
       bestValue = c;
-      best = r;
+      best = radii[i];
     }
   }
   return best;
@@ -165,6 +180,18 @@ std::vector<std::pair<int, int>> runsBeyond(const std::vector<double>& v, double
   return runs;
 }
 
+std::vector<double> circleMedians(const Image& img, const Camera& camera, const Ring& ring,
+                                  const std::vector<double>& radii, int bins, double step) {
+  std::vector<double> medians;
+  const double width = k::twoPi / bins;
+  for (double r : radii) {
+    std::vector<double> lum(static_cast<std::size_t>(bins));
+    for (int i = 0; i < bins; ++i) lum[std::size_t(i)] = luminance(ringColour(img, camera, ring, width * i, width, r, step));
+    medians.push_back(medianOf(lum));
+  }
+  return medians;
+}
+
 }  // namespace
 
 SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, double threshold) {
@@ -203,9 +230,17 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
     contrast[i] = smooth[i] / report.medianLuminance - 1.0;
     report.strongestContrast = std::max(report.strongestContrast, std::abs(contrast[i]));
   }
-  // Spots: runs of at least two bins beyond the threshold.
+  // Spots: runs of at least two bins beyond the threshold, each placed
+  // across the ring against the local background (computed once, when
+  // there is a spot to place; a quarter of the ring's bins is enough for a median).
+  const std::vector<std::pair<int, int>> runs = runsBeyond(smooth, report.medianLuminance, threshold);
+  std::vector<double> radii, medians;
+  if (!runs.empty()) {
+    radii = profileRadii(ring, step);
+    medians = circleMedians(img, camera, ring, radii, std::max(180, n / 4), step);
+  }
   constexpr int minRun = 2;  // two pixels of ring length
-  for (const auto& [first, last] : runsBeyond(smooth, report.medianLuminance, threshold)) {
+  for (const auto& [first, last] : runs) {
     if (last - first + 1 < minRun) continue;
     const double sign = contrast[std::size_t(first % n)] > 0 ? 1.0 : -1.0;
     int peak = first;
@@ -221,7 +256,7 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
     spot.contrast = contrast[std::size_t(peak % n)];
     spot.width = width * (last - first + 1);
     spot.colour = colour[std::size_t(peak % n)];
-    spot.radius = peakRadius(img, camera, ring, spot.azimuth, width, report.medianLuminance, sign, step);
+    spot.radius = peakRadius(img, camera, ring, spot.azimuth, width, sign, step, radii, medians);
     report.spots.push_back(spot);
   }
   std::sort(report.spots.begin(), report.spots.end(), [](const ImageSpot& a, const ImageSpot& b) { return a.azimuth < b.azimuth; });
