@@ -255,8 +255,9 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
     spot.azimuth = wrapAngle(width * (moment / weight));
     spot.contrast = contrast[std::size_t(peak % n)];
     spot.width = width * (last - first + 1);
-    spot.colour = colour[std::size_t(peak % n)];
     spot.radius = peakRadius(img, camera, ring, spot.azimuth, width, sign, step, radii, medians);
+    // The colour where the spot is strongest: on its peak across the ring.
+    spot.colour = ringColour(img, camera, ring, width * peak, width, spot.radius, step);
     report.spots.push_back(spot);
   }
   std::sort(report.spots.begin(), report.spots.end(), [](const ImageSpot& a, const ImageSpot& b) { return a.azimuth < b.azimuth; });
