@@ -194,7 +194,35 @@ std::vector<double> circleMedians(const Image& img, const Camera& camera, const 
 
 }  // namespace
 
-SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, double threshold) {
+namespace {
+
+// Whether the line of sight through the ring's point at azimuth `phi`
+// lands on the table top (within `tableRadius` of the lab origin, less a
+// margin of `margin`) behind it: where it does not, the ring is seen against
+// whatever lies beyond the table's edge, and that edge is no spot.
+bool againstTable(const Camera& camera, const Ring& ring, double phi, double tableRadius, double margin) {
+  const Vec3 p = ring.centre + Vec3(ring.radius * std::cos(phi), ring.radius * std::sin(phi), 0);
+  const Vec3 d = camera.orthographic ? camera.forward : Vec3(p - camera.eye);
+  if (!(d.z() < 0)) return false;
+  const Vec3 hit = p + d * (-p.z() / d.z());
+  return std::hypot(hit.x(), hit.y()) <= tableRadius - margin;
+}
+
+// Bins seen against the table, and those within `skirt` bins of one that is
+// not (the smoothing and the bins' own width carry the edge that far).
+std::vector<bool> seenBins(const Camera& camera, const Ring& ring, int n, double tableRadius, double step, int skirt) {
+  const std::size_t count = static_cast<std::size_t>(n);
+  std::vector<bool> raw(count), seen(count, true);
+  for (int i = 0; i < n; ++i) raw[std::size_t(i)] = againstTable(camera, ring, k::twoPi * i / n, tableRadius, 3 * step);
+  for (int i = 0; i < n; ++i)
+    if (!raw[std::size_t(i)])
+      for (int d = -skirt; d <= skirt; ++d) seen[std::size_t(((i + d) % n + n) % n)] = false;
+  return seen;
+}
+
+}  // namespace
+
+SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, double threshold, double tableRadius) {
   SpotReport report;
   report.ring = ring;
   report.threshold = threshold;
@@ -209,12 +237,25 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
     colour[std::size_t(i)] = ringColour(img, camera, ring, width * i, width, ring.radius, step);
     lum[std::size_t(i)] = luminance(colour[std::size_t(i)]);
   }
+  // Only the part of the ring seen against the table counts: the rest is
+  // filled with the median of the part that does and takes no part below.
+  const std::vector<bool> seen = seenBins(camera, ring, n, tableRadius, step, 2 * (smoothing + binAzimuthal));
+  std::vector<double> seenLum;
+  for (std::size_t i = 0; i < count; ++i)
+    if (seen[i]) seenLum.push_back(lum[i]);
+  report.seenShare = double(seenLum.size()) / double(count);
+  if (seenLum.size() < count / 4) return report;  // too little of the ring to judge
+  const double fill = medianOf(seenLum);
+  for (std::size_t i = 0; i < count; ++i)
+    if (!seen[i]) lum[i] = fill;
   // The background level: the ring's median, then the median again without
   // the strong spots and a skirt of their own width either side, so that
   // the spots and their approach do not pull down (or up) their own reference.
-  const std::vector<double> smooth = withoutTilt(movingAverage(lum, smoothing));
+  std::vector<double> smooth = withoutTilt(movingAverage(lum, smoothing));
   report.medianLuminance = medianOf(smooth);
   if (!(report.medianLuminance > 0)) return report;
+  for (std::size_t i = 0; i < count; ++i)
+    if (!seen[i]) smooth[i] = report.medianLuminance;
   std::vector<bool> quiet(count, true);
   for (const auto& [first, last] : runsBeyond(smooth, report.medianLuminance, 2 * threshold)) {
     const int w = last - first + 1;
@@ -224,6 +265,8 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
   for (std::size_t i = 0; i < count; ++i)
     if (quiet[i]) background.push_back(smooth[i]);
   if (background.size() >= count / 10) report.medianLuminance = medianOf(background);
+  for (std::size_t i = 0; i < count; ++i)
+    if (!seen[i]) smooth[i] = report.medianLuminance;
   // Weber contrast of each bin against it.
   std::vector<double> contrast(count);
   for (std::size_t i = 0; i < count; ++i) {
