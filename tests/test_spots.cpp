@@ -216,3 +216,29 @@ TEST_CASE("spot contrast seen from above and from visitors' eyes", "[spots][slow
     CHECK(c == Approx(top).epsilon(0.25));
   }
 }
+
+TEST_CASE("beyond the table's edge no spot is searched for", "[spots]") {
+  // From a low eye the far side of the ring stands against what lies beyond
+  // a small table: that edge must not count as a spot. The 4:1 tube just
+  // above its lowest precession, a table of 70 mm radius, an eye 150 mm
+  // above it and 500 mm away; the far side's line of sight passes the edge.
+  const double length = 0.064;
+  Scenario s = steadyScenario(length, 1.03 * minSteadyPrecession(cylinderOf(steadyScenario(length, 10).body)) / k::twoPi);
+  s.surface.tableRadius = 0.07;
+  s.observer.view = ViewKind::Visitor;
+  s.observer.eyeHeight = 0.15;
+  s.observer.eyeDistance = 0.5;
+  s.observer.fieldOfView = 12 * k::degree;
+  s.observer.imageSize = 128;
+  const SpotReport r = spotsOf(s, 1);
+  CAPTURE(r.seenShare, r.spots.size());
+  CHECK(r.seenShare < 0.95);
+  CHECK(r.seenShare > 0.25);
+  // The background beyond the table is a dark grey far below the table's
+  // and the body's colours: no spot may carry it.
+  for (const ImageSpot& spot : r.spots) CHECK(luminance(spot.colour) > 0.1);
+  // From above the whole ring lies over the table.
+  s.observer.view = ViewKind::Top;
+  s.observer.imageSize = 96;
+  CHECK(spotsOf(s, 1).seenShare == 1.0);
+}
