@@ -252,8 +252,8 @@ TEST_CASE("the design review job writes the report and refuses a folder in use",
 TEST_CASE("the live visitor's view finds its spots with expose's own chain", "[gui][session][observer]") {
   Session session(demo());
   session.pause();
-  // 1.5 s in: the demo rolls on rim B with end A raised (settled near 0.5 s).
-  const long steps = long(std::llround(1.5 / session.scenario().run.timeStep()));
+  // 3 s in: the demo rolls on rim B with end A raised (settled near 0.5 s).
+  const long steps = long(std::llround(3.0 / session.scenario().run.timeStep()));
   for (long i = 0; i < steps; ++i) session.stepOnce();
   constexpr int side = 96;  // px: small enough to be quick, large enough to resolve a spot
   REQUIRE(session.requestObserverShot(side));
