@@ -11,7 +11,6 @@
 #include <vector>
 
 #include "app/gui/gui_state.hpp"
-#include "core/colour.hpp"
 #include "core/constants.hpp"
 #include "core/io.hpp"
 
@@ -22,16 +21,7 @@ namespace {
 // Uploads a linear-light picture as sRGB bytes into the panel's texture.
 void upload(GuiState& ui, const ObserverShot& shot) {
   const Image& img = shot.image;
-  std::vector<unsigned char> bytes(std::size_t(img.width) * std::size_t(img.height) * 4);
-  for (int y = 0; y < img.height; ++y)
-    for (int x = 0; x < img.width; ++x) {
-      const Rgb c = img.at(x, y);
-      unsigned char* p = &bytes[(std::size_t(y) * std::size_t(img.width) + std::size_t(x)) * 4];
-      p[0] = (unsigned char)std::lround(linearToSrgb(c.r) * 255);
-      p[1] = (unsigned char)std::lround(linearToSrgb(c.g) * 255);
-      p[2] = (unsigned char)std::lround(linearToSrgb(c.b) * 255);
-      p[3] = 255;
-    }
+  const std::vector<unsigned char> bytes = srgbaBytes(img);
   if (!ui.observerTexture) glGenTextures(1, &ui.observerTexture);
   glBindTexture(GL_TEXTURE_2D, ui.observerTexture);
   glPixelStorei(GL_UNPACK_ALIGNMENT, 1);

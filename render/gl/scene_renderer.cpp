@@ -77,10 +77,6 @@ Rgb litFromBelow(const ViewScene& s, const Rgb& albedo) {
   return {albedo.r * k, albedo.g * k, albedo.b * k};
 }
 
-// A linear value as an sRGB byte (IEC 61966-2-1).
-unsigned char srgbByte(double linear) {
-  return static_cast<unsigned char>(std::lround(std::clamp(linearToSrgb(linear), 0.0, 1.0) * 255));
-}
 
 // A unit disk in the plane z = 0 (normal up), centred on the origin.
 Mesh unitDisk(int segments) {
@@ -199,16 +195,7 @@ void SceneRenderer::setBodyLook(const BodyLook& look) {
   // 8-bit sRGB texels: a quarter of the float atlas' memory, and the
   // sampler decodes them to linear light before filtering.
   const Image& a = look.atlas;
-  std::vector<unsigned char> texels(std::size_t(a.width) * std::size_t(a.height) * 4);
-  for (int y = 0; y < a.height; ++y)
-    for (int x = 0; x < a.width; ++x) {
-      const Rgb c = a.at(x, y);
-      unsigned char* t = &texels[(std::size_t(y) * std::size_t(a.width) + std::size_t(x)) * 4];
-      t[0] = srgbByte(c.r);
-      t[1] = srgbByte(c.g);
-      t[2] = srgbByte(c.b);
-      t[3] = 255;
-    }
+  const std::vector<unsigned char> texels = srgbaBytes(a);
   glBindTexture(GL_TEXTURE_2D, atlas_);
   glPixelStorei(GL_UNPACK_ALIGNMENT, 1);
   glTexImage2D(GL_TEXTURE_2D, 0, GL_SRGB8_ALPHA8, a.width, a.height, 0, GL_RGBA, GL_UNSIGNED_BYTE, texels.data());
