@@ -65,7 +65,7 @@ void spotReadout(const Session& s, const ObserverShot& shot) {
     ImGui::SetTooltip("circles: spots found on the picture along the raised end's ring (Weber contrast above %s)",
                       fmt(shot.spots.threshold, 3).c_str());
   if (const PatternWindow* w = s.patternAt(shot.end))
-    ImGui::Text("drift %s deg/s, %s pattern", fmt(w->patternDrift / k::degree, 3).c_str(),
+    ImGui::Text("drift %s deg/s (%s)", fmt(w->patternDrift / k::degree, 3).c_str(),
                 std::string(patternKindName(w->kind)).c_str());
   else
     ImGui::TextDisabled("drift: waiting for the forecast");

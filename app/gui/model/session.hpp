@@ -263,8 +263,6 @@ class Session {
   std::optional<ObserverShot> shot_;
   std::optional<DimensionAdvice> advice_;
   double lastShotRequest_ = -1e9;  ///< simulated time of the last live request, s
-  Worker<Forecast> forecastWorker_;  // workers last: they stop before the members above go
-  Worker<ObserverShot> observerWorker_;
   std::optional<ReviewOutcome> review_;
   std::uint64_t reviewsFinished_ = 0;
   std::string reviewFolder_;  ///< folder of the review asked for last
@@ -274,6 +272,8 @@ class Session {
     std::string text;
   };
   std::shared_ptr<ReviewStage> reviewStage_ = std::make_shared<ReviewStage>();
+  Worker<Forecast> forecastWorker_;  // workers last: they stop before the members above go
+  Worker<ObserverShot> observerWorker_;
   Worker<DimensionAdvice> adviceWorker_;
   Worker<ReviewOutcome> reviewWorker_;
 };
