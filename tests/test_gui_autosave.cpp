@@ -10,6 +10,7 @@
 #include <unistd.h>
 
 #include "app/gui/model/autosave.hpp"
+#include "app/gui/model/session.hpp"
 #include "core/io.hpp"
 
 using namespace dm;
@@ -73,4 +74,26 @@ TEST_CASE("the autosave clock writes changed unsaved edits at most once per inte
   CHECK_FALSE(clock.due(1, 4, true));   // changed, but too soon
   CHECK_FALSE(clock.due(9, 3, true));   // late enough, but already written
   CHECK(clock.due(5, 4, true));
+}
+
+TEST_CASE("restored edits are unsaved against the file they belong to", "[gui][autosave]") {
+  TempFolder tmp;
+  std::filesystem::create_directories(tmp.dir);
+  const std::string file = (tmp.dir / "tube.json").string();
+  writeFileAtomic(file, scenarioToJson(defaultScenario()).dump(2) + "\n");
+  Scenario edited = defaultScenario();
+  edited.body.length = 0.0875;
+  // The file still opens: the session holds it, with the edits on top.
+  Session s(defaultScenario());
+  s.restore({edited, file});
+  CHECK(s.path() == file);
+  CHECK(s.dirty());
+  CHECK(s.scenario().body.length == 0.0875);
+  // The file is gone: the edits come back as a new, unsaved scenario.
+  std::filesystem::remove(file);
+  Session t(defaultScenario());
+  t.restore({edited, file});
+  CHECK(t.path().empty());
+  CHECK(t.dirty());
+  CHECK(t.scenario().body.length == 0.0875);
 }

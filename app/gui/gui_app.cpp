@@ -378,6 +378,16 @@ int runGui(const app::GuiOptions& options) {
     ui.recentFile = options.frames > 0 ? std::string() : defaultRecentFilesPath();
     if (!ui.recentFile.empty()) ui.recent = loadRecentFiles(ui.recentFile);
     if (!options.scenarioPath.empty() && !ui.recentFile.empty()) ui.recent.add(options.scenarioPath);
+    // Unsaved edits a previous window left behind are offered back; scripted
+    // runs neither read nor write them.
+    ui.autosaveFile = options.frames > 0 ? std::string() : defaultAutosavePath();
+    try {
+      ui.kept = loadAutosave(ui.autosaveFile);
+      ui.askRestore = ui.kept.has_value();
+    } catch (const ScenarioError& e) {
+      ui.status = std::string("unsaved edits kept from before cannot be read (file left as it is): ") + e.what();
+      ui.autosaveFile.clear();  // do not overwrite what the user may want to look at
+    }
     try {
       ui.presets = loadSurfacePresets(bundledSurfaceDir());
     } catch (const std::exception& e) {
@@ -415,6 +425,7 @@ int runGui(const app::GuiOptions& options) {
         const double now = scripted ? double(n) * scriptedFrameSeconds : std::chrono::duration<double>(start - began).count();
         last = start;
         frame(c, window, surface, shown, std::min(wall, 0.1), now, n < 2 || lastFrame);
+        keepUnsavedEdits(c, now);
         if (lastFrame && !options.screenshotPath.empty()) writeScreenshot(c, surface, options.screenshotPath);
         if (const std::string t = windowTitle(session); t != title) glfwSetWindowTitle(window, (title = t).c_str());
         ui.times.add(msSince(timed));
@@ -434,6 +445,9 @@ int runGui(const app::GuiOptions& options) {
       std::cerr << "dwellmark: GUI error: " << e.what() << "\n";
       code = app::exitFailure;
     }
+    // A window that closes normally has had its unsaved edits saved or
+    // deliberately discarded: nothing to offer back next time.
+    if (code == app::exitOk && ui.quit && !ui.kept) clearAutosave(ui.autosaveFile);
     if (!ui.recentFile.empty()) {
       try {
         saveRecentFiles(ui.recent, ui.recentFile);

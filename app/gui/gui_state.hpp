@@ -5,10 +5,12 @@
 #include <deque>
 #include <map>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
 #include "app/gui/camera.hpp"
+#include "app/gui/model/autosave.hpp"
 #include "app/gui/model/files.hpp"
 #include "app/gui/model/session.hpp"
 #include "core/surface_preset.hpp"
@@ -94,6 +96,10 @@ struct GuiState {
   bool askUnsaved = false;
   RecentFiles recent;
   std::string recentFile;      ///< where the recent list is kept ("" = nowhere)
+  std::string autosaveFile;    ///< where unsaved edits are kept while the window runs ("" = nowhere)
+  AutosaveClock autosave;      ///< when they are next written
+  std::optional<AutosaveRecord> kept;  ///< edits a previous window left unsaved, offered back at start
+  bool askRestore = false;     ///< open the question about them
   std::vector<SurfacePreset> presets;
   std::string presetError;
   int exportWidth = 1920, exportHeight = 1200;  ///< px, picture exports
@@ -142,6 +148,9 @@ void requestOpen(GuiContext& c, const std::string& path);  ///< asks about unsav
 void requestNew(GuiContext& c);
 void requestQuit(GuiContext& c);
 void saveScenario(GuiContext& c);  ///< to its file, or asks for one
+/// Keeps unsaved edits in the autosave file (at most every autosave
+/// interval; clock `now` in s), and removes it once nothing is unsaved.
+void keepUnsavedEdits(GuiContext& c, double now);
 void openChooser(GuiContext& c, FileTask task);
 /// The 3D view's scene at this instant.
 ViewScene currentScene(GuiContext& c);

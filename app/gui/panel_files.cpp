@@ -285,9 +285,55 @@ void drawUnsavedQuestion(GuiContext& c) {
   ImGui::EndPopup();
 }
 
+// The question about edits a previous window left unsaved (it crashed or
+// was killed): take them back, or throw them away.
+void drawRestoreQuestion(GuiContext& c) {
+  if (c.ui.askRestore) {
+    ImGui::OpenPopup("Unsaved edits kept");
+    c.ui.askRestore = false;
+  }
+  if (!c.ui.kept || !ImGui::BeginPopupModal("Unsaved edits kept", nullptr, ImGuiWindowFlags_AlwaysAutoResize)) return;
+  const std::string of = c.ui.kept->origin.empty() ? std::string("a new scenario") : c.ui.kept->origin;
+  ImGui::Text("The last window closed without saving its edits to %s.", of.c_str());
+  ImGui::TextDisabled("kept in %s", c.ui.autosaveFile.c_str());
+  if (ImGui::Button("Take them back", ImVec2(150, 0))) {
+    c.session.restore(*c.ui.kept);
+    c.ui.camera = framingPreset(c.session.scenario());
+    c.ui.status = "took back the unsaved edits to " + of;
+    c.ui.kept.reset();
+    ImGui::CloseCurrentPopup();
+  }
+  ImGui::SameLine();
+  if (ImGui::Button("Throw them away", ImVec2(150, 0))) {
+    clearAutosave(c.ui.autosaveFile);
+    c.ui.kept.reset();
+    ImGui::CloseCurrentPopup();
+  }
+  ImGui::EndPopup();
+}
+
 }  // namespace
 
 // ---- actions -------------------------------------------------------------------
+
+void keepUnsavedEdits(GuiContext& c, double now) {
+  if (c.ui.autosaveFile.empty() || c.ui.kept) return;  // nothing to keep in, or an older file still to be answered
+  const Session& s = c.session;
+  if (!s.dirty()) {
+    if (c.ui.autosave.writtenRevision != 0) {  // saved (or back as in the file) since the last write
+      clearAutosave(c.ui.autosaveFile);
+      c.ui.autosave.writtenRevision = 0;
+    }
+    return;
+  }
+  if (!c.ui.autosave.due(now, s.revision(), true)) return;
+  try {
+    writeAutosave(c.ui.autosaveFile, s.scenario(), s.path());
+  } catch (const OutputError& e) {
+    c.ui.status = std::string("cannot keep unsaved edits: ") + e.what();
+  }
+  c.ui.autosave.wrote(now, s.revision());  // a failed write is retried one interval later
+}
 
 void requestOpen(GuiContext& c, const std::string& path) {
   c.ui.deferredPath = path;
@@ -417,6 +463,7 @@ void drawMenuBar(GuiContext& c) {
 void drawFileDialogs(GuiContext& c) {
   drawChooser(c);
   drawUnsavedQuestion(c);
+  drawRestoreQuestion(c);
   drawReviewOutcome(c);
 }
 

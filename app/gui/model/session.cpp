@@ -187,6 +187,18 @@ void Session::open(const std::string& path) {
   restart();
 }
 
+void Session::restore(const AutosaveRecord& kept) {
+  bool reopened = false;
+  if (!kept.origin.empty()) try {
+      open(kept.origin);
+      reopened = true;
+    } catch (const ScenarioError&) {
+      // the file is gone or changed beyond reading: the edits come back as a new scenario
+    }
+  if (!reopened) reset(defaultScenario());
+  replace(kept.scenario);
+}
+
 void Session::saveAs(const std::string& path) {
   const nlohmann::json doc = scenarioToJson(scenario_);
   writeFileAtomic(path, doc.dump(2) + "\n");

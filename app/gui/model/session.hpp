@@ -14,6 +14,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include "app/gui/model/autosave.hpp"
 #include "app/gui/model/worker.hpp"
 #include "app/review.hpp"
 #include "core/dynamics.hpp"
@@ -151,6 +152,10 @@ class Session {
   // ---- files -------------------------------------------------------------
   /// Loads a scenario file (throws ScenarioError; the session is unchanged then).
   void open(const std::string& path);
+  /// Takes back the edits an autosave kept: reopens the file they belong to
+  /// when it still opens (else starts a new scenario), then applies them, so
+  /// the session is dirty against that file as before the crash.
+  void restore(const AutosaveRecord& kept);
   /// Writes the scenario as JSON, atomically (throws OutputError), and remembers the path.
   void saveAs(const std::string& path);
   /// A fresh default scenario with no file.
