@@ -83,19 +83,34 @@ Rgb ringColour(const Image& img, const Camera& camera, const Ring& ring, double 
   return n > 0 ? Rgb{sum.r / n, sum.g / n, sum.b / n} : Rgb{};
 }
 
-// Where across the ring, within a third of its radius, the contrast at
-// azimuth `phi` peaks with the spot's sign.
-double peakRadius(const Image& img, const Camera& camera, const Ring& ring, double phi, double width, double median,
-                  double sign, double step) {
-  double best = ring.radius, bestValue = -1e300;
+// The radii a spot's radial profile is read at: within a third of the
+// ring's radius either side, one footprint `step` apart.
+std::vector<double> profileRadii(const Ring& ring, double step) {
+  std::vector<double> radii;
   const int reach = int(std::ceil(ring.radius / 3 / step));
-  for (int k = -reach; k <= reach; ++k) {
-    const double r = ring.radius + k * step;
-    if (r <= 0) continue;
-    const double c = sign * (luminance(ringColour(img, camera, ring, phi, width, r, step)) / median - 1.0);
+  for (int k = -reach; k <= reach; ++k)
+    if (ring.radius + k * step > 0) radii.push_back(ring.radius + k * step);
+  return radii;
+}
+
+// The median luminance of the circle of each radius, in `bins` bins: the
+// local background at that distance from the centre. A spot's place across
+// the ring is judged against it, not against the ring's own median, or the
+// darker table beyond the swept disc would pass for the peak of a dark spot.
+std::vector<double> circleMedians(const Image& img, const Camera& camera, const Ring& ring,
+                                  const std::vector<double>& radii, int bins, double step);
+
+// Where across the ring the contrast at azimuth `phi` against the local
+// background peaks with the spot's sign.
+double peakRadius(const Image& img, const Camera& camera, const Ring& ring, double phi, double width, double sign,
+                  double step, const std::vector<double>& radii, const std::vector<double>& medians) {
+  double best = ring.radius, bestValue = -1e300;
+  for (std::size_t i = 0; i < radii.size(); ++i) {
+    if (!(medians[i] > 0)) continue;
+    const double c = sign * (luminance(ringColour(img, camera, ring, phi, width, radii[i], step)) / medians[i] - 1.0);
     if (c > bestValue) {
       bestValue = c;
-      best = r;
+      best = radii[i];
     }
   }
   return best;
@@ -165,9 +180,49 @@ std::vector<std::pair<int, int>> runsBeyond(const std::vector<double>& v, double
   return runs;
 }
 
+std::vector<double> circleMedians(const Image& img, const Camera& camera, const Ring& ring,
+                                  const std::vector<double>& radii, int bins, double step) {
+  std::vector<double> medians;
+  const double width = k::twoPi / bins;
+  for (double r : radii) {
+    std::vector<double> lum(static_cast<std::size_t>(bins));
+    for (int i = 0; i < bins; ++i) lum[std::size_t(i)] = luminance(ringColour(img, camera, ring, width * i, width, r, step));
+    medians.push_back(medianOf(lum));
+  }
+  return medians;
+}
+
 }  // namespace
 
-SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, double threshold) {
+namespace {
+
+// Whether the line of sight through the ring's point at azimuth `phi`
+// lands on the table top (within `tableRadius` of the lab origin, less a
+// margin of `margin`) behind it: where it does not, the ring is seen against
+// whatever lies beyond the table's edge, and that edge is no spot.
+bool againstTable(const Camera& camera, const Ring& ring, double phi, double tableRadius, double margin) {
+  const Vec3 p = ring.centre + Vec3(ring.radius * std::cos(phi), ring.radius * std::sin(phi), 0);
+  const Vec3 d = camera.orthographic ? camera.forward : Vec3(p - camera.eye);
+  if (!(d.z() < 0)) return false;
+  const Vec3 hit = p + d * (-p.z() / d.z());
+  return std::hypot(hit.x(), hit.y()) <= tableRadius - margin;
+}
+
+// Bins seen against the table, and those within `skirt` bins of one that is
+// not (the smoothing and the bins' own width carry the edge that far).
+std::vector<bool> seenBins(const Camera& camera, const Ring& ring, int n, double tableRadius, double step, int skirt) {
+  const std::size_t count = static_cast<std::size_t>(n);
+  std::vector<bool> raw(count), seen(count, true);
+  for (int i = 0; i < n; ++i) raw[std::size_t(i)] = againstTable(camera, ring, k::twoPi * i / n, tableRadius, 3 * step);
+  for (int i = 0; i < n; ++i)
+    if (!raw[std::size_t(i)])
+      for (int d = -skirt; d <= skirt; ++d) seen[std::size_t(((i + d) % n + n) % n)] = false;
+  return seen;
+}
+
+}  // namespace
+
+SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, double threshold, double tableRadius) {
   SpotReport report;
   report.ring = ring;
   report.threshold = threshold;
@@ -182,12 +237,25 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
     colour[std::size_t(i)] = ringColour(img, camera, ring, width * i, width, ring.radius, step);
     lum[std::size_t(i)] = luminance(colour[std::size_t(i)]);
   }
+  // Only the part of the ring seen against the table counts: the rest is
+  // filled with the median of the part that does and takes no part below.
+  const std::vector<bool> seen = seenBins(camera, ring, n, tableRadius, step, 2 * (smoothing + binAzimuthal));
+  std::vector<double> seenLum;
+  for (std::size_t i = 0; i < count; ++i)
+    if (seen[i]) seenLum.push_back(lum[i]);
+  report.seenShare = double(seenLum.size()) / double(count);
+  if (seenLum.size() < count / 4) return report;  // too little of the ring to judge
+  const double fill = medianOf(seenLum);
+  for (std::size_t i = 0; i < count; ++i)
+    if (!seen[i]) lum[i] = fill;
   // The background level: the ring's median, then the median again without
   // the strong spots and a skirt of their own width either side, so that
   // the spots and their approach do not pull down (or up) their own reference.
-  const std::vector<double> smooth = withoutTilt(movingAverage(lum, smoothing));
+  std::vector<double> smooth = withoutTilt(movingAverage(lum, smoothing));
   report.medianLuminance = medianOf(smooth);
   if (!(report.medianLuminance > 0)) return report;
+  for (std::size_t i = 0; i < count; ++i)
+    if (!seen[i]) smooth[i] = report.medianLuminance;
   std::vector<bool> quiet(count, true);
   for (const auto& [first, last] : runsBeyond(smooth, report.medianLuminance, 2 * threshold)) {
     const int w = last - first + 1;
@@ -197,15 +265,25 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
   for (std::size_t i = 0; i < count; ++i)
     if (quiet[i]) background.push_back(smooth[i]);
   if (background.size() >= count / 10) report.medianLuminance = medianOf(background);
+  for (std::size_t i = 0; i < count; ++i)
+    if (!seen[i]) smooth[i] = report.medianLuminance;
   // Weber contrast of each bin against it.
   std::vector<double> contrast(count);
   for (std::size_t i = 0; i < count; ++i) {
     contrast[i] = smooth[i] / report.medianLuminance - 1.0;
     report.strongestContrast = std::max(report.strongestContrast, std::abs(contrast[i]));
   }
-  // Spots: runs of at least two bins beyond the threshold.
+  // Spots: runs of at least two bins beyond the threshold, each placed
+  // across the ring against the local background (computed once, when
+  // there is a spot to place; a quarter of the ring's bins is enough for a median).
+  const std::vector<std::pair<int, int>> runs = runsBeyond(smooth, report.medianLuminance, threshold);
+  std::vector<double> radii, medians;
+  if (!runs.empty()) {
+    radii = profileRadii(ring, step);
+    medians = circleMedians(img, camera, ring, radii, std::max(180, n / 4), step);
+  }
   constexpr int minRun = 2;  // two pixels of ring length
-  for (const auto& [first, last] : runsBeyond(smooth, report.medianLuminance, threshold)) {
+  for (const auto& [first, last] : runs) {
     if (last - first + 1 < minRun) continue;
     const double sign = contrast[std::size_t(first % n)] > 0 ? 1.0 : -1.0;
     int peak = first;
@@ -220,8 +298,9 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
     spot.azimuth = wrapAngle(width * (moment / weight));
     spot.contrast = contrast[std::size_t(peak % n)];
     spot.width = width * (last - first + 1);
-    spot.colour = colour[std::size_t(peak % n)];
-    spot.radius = peakRadius(img, camera, ring, spot.azimuth, width, report.medianLuminance, sign, step);
+    spot.radius = peakRadius(img, camera, ring, spot.azimuth, width, sign, step, radii, medians);
+    // The colour where the spot is strongest: on its peak across the ring.
+    spot.colour = ringColour(img, camera, ring, width * peak, width, spot.radius, step);
     report.spots.push_back(spot);
   }
   std::sort(report.spots.begin(), report.spots.end(), [](const ImageSpot& a, const ImageSpot& b) { return a.azimuth < b.azimuth; });

@@ -47,7 +47,8 @@ struct SpotReport {
   Ring ring;
   double threshold = 0.02;     ///< Weber contrast a spot must exceed
   double medianLuminance = 0;  ///< the ring's median relative luminance
-  double strongestContrast = 0;  ///< the largest |contrast| anywhere on the ring, spot or not
+  double strongestContrast = 0;  ///< the largest |contrast| anywhere on the ring seen against the table, spot or not
+  double seenShare = 1;          ///< share of the ring seen against the table top (the rest is not searched)
   std::vector<ImageSpot> spots;  ///< in order of azimuth
 };
 
@@ -58,7 +59,11 @@ struct SpotReport {
 /// halves of a ring seen obliquely differ in shading); the reference is the
 /// median, taken again without the strong spots and their skirts; a spot is
 /// a run of bins, at least two pixels long, all beyond the threshold with
-/// one sign.
-SpotReport findSpots(const Image& image, const Camera& camera, const Ring& ring, double threshold);
+/// one sign. Only the ring's part seen against the table top (within
+/// `tableRadius` of the lab origin) is searched: from a low eye the far side
+/// of the ring can stand against what lies beyond the table's edge. Below a
+/// quarter of the ring seen, nothing is reported.
+SpotReport findSpots(const Image& image, const Camera& camera, const Ring& ring, double threshold,
+                     double tableRadius = 1e300);
 
 }  // namespace dm

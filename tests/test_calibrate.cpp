@@ -40,7 +40,7 @@ Scenario slipperyTable() {
 
 }  // namespace
 
-TEST_CASE("calibration recovers the friction and rolling resistance a run was made with", "[calibrate]") {
+TEST_CASE("calibration recovers the friction and rolling resistance a run was made with", "[calibrate][slow]") {
   // The "measurement": the mean settle and spin times of 16 launches
   // simulated with the known coefficients; the calibration starts from
   // handbook-like values and averages the same 16 launches.

@@ -133,7 +133,7 @@ TEST_CASE("the ring of a run is the circle of the raised end's top points", "[sp
   CHECK(ring.centre.z() == Approx(m.spin.ceilingHeight).margin(1e-7));
 }
 
-TEST_CASE("steady spins show the spots their length ratio predicts", "[spots]") {
+TEST_CASE("steady spins show the spots their length ratio predicts", "[spots][slow]") {
   // Common practice, no source: a tube four times as long as its diameter
   // shows four spots, three times as long shows three; the raised end's
   // mark is the one seen. Just above the lowest precession the tilt is
@@ -147,7 +147,11 @@ TEST_CASE("steady spins show the spots their length ratio predicts", "[spots]") 
     REQUIRE(int(red.size()) == count);
     for (const ImageSpot& spot : red) {
       CHECK(spot.contrast < -0.04);
-      CHECK(spot.radius == Approx(r.ring.radius).margin(0.004));
+      // Across the ring the spot lies where the mark rests: its 4 mm band runs from the
+      // rim, on the top point's ring, inwards along the side. Two pixels (0.47 mm each
+      // here) outside the ring at most, for the image's sampling.
+      CHECK(spot.radius <= r.ring.radius + 0.00094);
+      CHECK(spot.radius >= r.ring.radius - 0.004);
     }
     // No spot in end B's blue: the lowered end's marks stop on the table, out of sight.
     for (const ImageSpot& spot : r.spots) CHECK(spot.colour.b <= spot.colour.r);
@@ -180,7 +184,7 @@ TEST_CASE("half-integer N doubles the spots and weakens them; an irrational N wa
   CHECK(none.spots.empty());
 }
 
-TEST_CASE("spot contrast seen from above and from visitors' eyes", "[spots]") {
+TEST_CASE("spot contrast seen from above and from visitors' eyes", "[spots][slow]") {
   const double length = 0.064;
   Scenario s = steadyScenario(length, 1.03 * minSteadyPrecession(cylinderOf(steadyScenario(length, 10).body)) / k::twoPi);
   auto meanRed = [](const SpotReport& r, std::size_t& count) {
@@ -211,4 +215,30 @@ TEST_CASE("spot contrast seen from above and from visitors' eyes", "[spots]") {
     CHECK(count == 4);
     CHECK(c == Approx(top).epsilon(0.25));
   }
+}
+
+TEST_CASE("beyond the table's edge no spot is searched for", "[spots]") {
+  // From a low eye the far side of the ring stands against what lies beyond
+  // a small table: that edge must not count as a spot. The 4:1 tube just
+  // above its lowest precession, a table of 70 mm radius, an eye 150 mm
+  // above it and 500 mm away; the far side's line of sight passes the edge.
+  const double length = 0.064;
+  Scenario s = steadyScenario(length, 1.03 * minSteadyPrecession(cylinderOf(steadyScenario(length, 10).body)) / k::twoPi);
+  s.surface.tableRadius = 0.07;
+  s.observer.view = ViewKind::Visitor;
+  s.observer.eyeHeight = 0.15;
+  s.observer.eyeDistance = 0.5;
+  s.observer.fieldOfView = 12 * k::degree;
+  s.observer.imageSize = 128;
+  const SpotReport r = spotsOf(s, 1);
+  CAPTURE(r.seenShare, r.spots.size());
+  CHECK(r.seenShare < 0.95);
+  CHECK(r.seenShare > 0.25);
+  // The background beyond the table is a dark grey far below the table's
+  // and the body's colours: no spot may carry it.
+  for (const ImageSpot& spot : r.spots) CHECK(luminance(spot.colour) > 0.1);
+  // From above the whole ring lies over the table.
+  s.observer.view = ViewKind::Top;
+  s.observer.imageSize = 96;
+  CHECK(spotsOf(s, 1).seenShare == 1.0);
 }
