@@ -1,6 +1,7 @@
 #include "app/cli.hpp"
 
 #include <iostream>
+#include <regex>
 
 #include "core/io.hpp"
 
@@ -12,7 +13,20 @@ Scenario loadScenarioWithOverrides(const std::string& path, const std::vector<st
   return scenarioFromJson(doc);
 }
 
-int runCli(int argc, char** argv, GuiRunner gui) {
+std::pair<int, int> parseSize(const std::string& flag, const std::string& text, std::pair<int, int> min,
+                              std::pair<int, int> max) {
+  std::smatch m;
+  if (!std::regex_match(text, m, std::regex("([0-9]{1,5})x([0-9]{1,5})")))
+    throw ScenarioError(flag, "expected WIDTHxHEIGHT in pixels, e.g. 1280x800, got \"" + text + "\"");
+  const int width = std::stoi(m[1]), height = std::stoi(m[2]);
+  if (width < min.first || width > max.first || height < min.second || height > max.second)
+    throw ScenarioError(flag, "value " + text + " is out of range; allowed " + std::to_string(min.first) + "x" +
+                                  std::to_string(min.second) + " to " + std::to_string(max.first) + "x" +
+                                  std::to_string(max.second));
+  return {width, height};
+}
+
+int runCli(int argc, char** argv, GuiRunner gui, SnapshotRunner snapshot) {
   CLI::App app{"dwellmark: predicts what visitors see when they spin a marked tube, rod, ring or coin on a table"};
   app.set_version_flag("--version", std::string(DWELLMARK_VERSION));
   app.require_subcommand(1);
@@ -26,6 +40,7 @@ int runCli(int argc, char** argv, GuiRunner gui) {
   addCalibrateCommand(app, commands);
   addReviewCommand(app, commands);
   addGuiCommand(app, commands, std::move(gui));
+  addSnapshotCommand(app, commands, std::move(snapshot));
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -59,6 +59,27 @@ using GuiRunner = std::function<int(const GuiOptions&)>;
 /// and says that this build has no GUI.
 void addGuiCommand(CLI::App& app, Commands& commands, GuiRunner runner);
 
+/// What `dwellmark snapshot` was asked for.
+struct SnapshotOptions {
+  Scenario scenario;                   ///< the validated scenario
+  std::string outPath;                 ///< the PNG to write
+  int width = 1280, height = 800;      ///< picture size, px
+  double time = 0;                     ///< s, the instant shown (0 to run.duration_s)
+  bool force = false;                  ///< replace an existing file
+};
+/// Renders the snapshot without a display; returns the exit code. Empty in builds without GL.
+using SnapshotRunner = std::function<int(const SnapshotOptions&)>;
+
+/// Registers `dwellmark snapshot` (app/cmd_snapshot.cpp). With an empty
+/// runner the command still exists and says that this build has no OpenGL.
+void addSnapshotCommand(CLI::App& app, Commands& commands, SnapshotRunner runner);
+
+/// A picture or window size typed as WIDTHxHEIGHT (e.g. 1280x800), checked
+/// against [minWidth, maxWidth] x [minHeight, maxHeight] px; throws
+/// ScenarioError naming `flag`, the value and the allowed range.
+std::pair<int, int> parseSize(const std::string& flag, const std::string& text, std::pair<int, int> min,
+                              std::pair<int, int> max);
+
 /// Reads a scenario file, applies `--set key.path=value` overrides, parses
 /// and validates it (throws ScenarioError).
 Scenario loadScenarioWithOverrides(const std::string& path, const std::vector<std::string>& sets);
@@ -71,8 +92,9 @@ Scenario loadScenarioWithOverrides(const std::string& path, const std::vector<st
 int finishSimulation(const Scenario& s, const RunResult& r, const std::string& outDir, std::ostream& out,
                      std::ostream& err);
 
-/// Parses the command line and runs the chosen subcommand; `gui` is the
-/// GUI's entry point when this build has one.
-int runCli(int argc, char** argv, GuiRunner gui = {});
+/// Parses the command line and runs the chosen subcommand; `gui` and
+/// `snapshot` are the GUI's and the headless 3D view's entry points when
+/// this build has OpenGL.
+int runCli(int argc, char** argv, GuiRunner gui = {}, SnapshotRunner snapshot = {});
 
 }  // namespace dm::app

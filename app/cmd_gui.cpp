@@ -2,7 +2,7 @@
 // line; the window lives in app/gui/ and is passed in when the build has it.
 #include <cstdlib>
 #include <iostream>
-#include <regex>
+#include <tuple>
 
 #include "app/cli.hpp"
 
@@ -39,15 +39,7 @@ int runGuiCommand(const GuiArgs& a, const GuiRunner& runner) {
     if (!a.sets.empty()) throw ScenarioError("--set", "needs a scenario file to override");
     o.scenario = defaultScenario();
   }
-  std::smatch m;
-  if (!std::regex_match(a.size, m, std::regex("([0-9]{3,5})x([0-9]{3,5})")))
-    throw ScenarioError("--size", "expected WIDTHxHEIGHT in pixels, e.g. 1280x800, got \"" + a.size + "\"");
-  o.width = std::stoi(m[1]);
-  o.height = std::stoi(m[2]);
-  if (o.width < minWidth || o.width > maxWidth || o.height < minHeight || o.height > maxHeight)
-    throw ScenarioError("--size", "value " + a.size + " is out of range; allowed " + std::to_string(minWidth) + "x" +
-                                      std::to_string(minHeight) + " to " + std::to_string(maxWidth) + "x" +
-                                      std::to_string(maxHeight));
+  std::tie(o.width, o.height) = parseSize("--size", a.size, {minWidth, minHeight}, {maxWidth, maxHeight});
   if (a.frames < 0 || a.frames > 1000000)
     throw ScenarioError("--frames", "value " + std::to_string(a.frames) + " is out of range; allowed 1 to 1000000");
   o.frames = a.frames > 0 ? a.frames : (a.screenshot.empty() ? 0 : defaultScreenshotFrames);

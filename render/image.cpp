@@ -78,6 +78,16 @@ std::string encodePng(const Image& img) {
   return out;
 }
 
+std::vector<unsigned char> srgbaBytes(const Image& img) {
+  std::vector<unsigned char> bytes(std::size_t(img.width) * std::size_t(img.height) * 4);
+  for (std::size_t pixel = 0; pixel < bytes.size() / 4; ++pixel) {
+    for (std::size_t ch = 0; ch < 3; ++ch)
+      bytes[pixel * 4 + ch] = static_cast<unsigned char>(std::lround(linearToSrgb(img.rgb[pixel * 3 + ch]) * 255.0));
+    bytes[pixel * 4 + 3] = 255;
+  }
+  return bytes;
+}
+
 void writePng(const std::string& path, const Image& img) { writeFileAtomic(path, encodePng(img)); }
 
 Image readPng(const std::string& path) {

@@ -25,6 +25,10 @@ std::string encodePng(const Image& img);
 /// PFM bytes (linear float RGB, little-endian, bottom row first); throws
 /// std::domain_error on a NaN or infinite channel.
 std::string encodePfm(const Image& img);
+/// The image as 8-bit sRGB bytes (IEC 61966-2-1 transfer, the same bytes a
+/// PNG of it holds) with an opaque alpha, 4 per pixel, row 0 first: what a
+/// GL texture upload takes.
+std::vector<unsigned char> srgbaBytes(const Image& img);
 /// Writes an image as 8-bit sRGB PNG, atomically.
 void writePng(const std::string& path, const Image& img);
 /// Reads an 8-bit RGB or RGBA PNG back into linear light (for tests).

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstring>
 
 #include "core/constants.hpp"
 #include "core/pattern.hpp"
@@ -12,6 +13,20 @@ namespace {
 
 // Most points a trace keeps: enough for sharp cusps, few enough to draw fast.
 constexpr std::size_t maxTracePoints = 2000;
+
+// Reach of the millimetre grid lines around the spin centre, m.
+constexpr double fineGridExtent = 0.04;
+
+// A key that changes with the grid's inputs (FNV-1a over their bits); never 0.
+std::uint64_t gridKeyOf(double radius, double spacing, const Rgb& colour) {
+  std::uint64_t h = 14695981039346656037ull;
+  for (double v : {radius, spacing, fineGridExtent, colour.r, colour.g, colour.b}) {
+    std::uint64_t bits = 0;
+    std::memcpy(&bits, &v, sizeof bits);
+    for (int i = 0; i < 8; ++i) h = (h ^ ((bits >> (8 * i)) & 0xffu)) * 1099511628211ull;
+  }
+  return h | 1u;
+}
 
 Eigen::Vector3f toFloat(const Vec3& v) { return v.cast<float>(); }
 
@@ -207,7 +222,10 @@ ViewScene buildViewScene(const SceneSource& src, const SceneOverlays& ov) {
                            std::cos(light.keyElevation) * std::sin(light.keyAzimuth), std::sin(light.keyElevation));
   v.ambient = light.ambient;
   v.keyIntensity = light.keyIntensity;
-  if (ov.grid) v.lines = tableGrid(sc.surface.tableRadius, sc.surface.gridSpacing, 0.04, sc.surface.colour);
+  if (ov.grid) {
+    v.grid = tableGrid(sc.surface.tableRadius, sc.surface.gridSpacing, fineGridExtent, sc.surface.colour);
+    v.gridKey = gridKeyOf(sc.surface.tableRadius, sc.surface.gridSpacing, sc.surface.colour);
+  }
   if (src.recent.empty()) return v;
 
   const Sample& now = src.recent.back();

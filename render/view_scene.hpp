@@ -72,6 +72,7 @@ struct SceneOverlays {
   bool spinAxis = true;       ///< the angular velocity through the centre
   bool centrePath = true;     ///< the centre's path over the whole run
   double trailSeconds = 0.5;  ///< s, history shown by the point traces (0.02..10)
+  bool operator==(const SceneOverlays&) const = default;
 };
 
 /// The 3D view at one instant, lab frame, SI.
@@ -79,7 +80,9 @@ struct ViewScene {
   Pose bodyPose;
   double tableRadius = 0.3;  ///< m
   Rgb tableColour;
-  std::vector<SceneLine> lines;
+  std::vector<SceneLine> grid;  ///< the table's grid lines: the same at every instant of a scenario
+  std::uint64_t gridKey = 0;    ///< changes whenever `grid` does, so a renderer may keep it uploaded meanwhile
+  std::vector<SceneLine> lines;  ///< traces, paths and the spin axis: new every instant
   bool ceilingVisible = false;
   Vec3 ceilingCentre = Vec3::Zero();  ///< m, the plane is horizontal
   double ceilingHalfSize = 0.05;      ///< m

@@ -5,6 +5,8 @@
 
 #include <cmath>
 #include <filesystem>
+#include <fstream>
+#include <sstream>
 
 #include "app/gui/model/session.hpp"
 #include "core/io.hpp"
@@ -20,6 +22,13 @@ std::string tempPath(const std::string& name) {
   const auto dir = std::filesystem::temp_directory_path() / "dwellmark-test-gui-session";
   std::filesystem::create_directories(dir);
   return (dir / name).string();
+}
+
+std::string readTextFile(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  std::stringstream ss;
+  ss << in.rdbuf();
+  return ss.str();
 }
 
 }  // namespace
@@ -187,4 +196,93 @@ TEST_CASE("the visitor flick draws reproducible launches within the spread", "[g
   CHECK(a.scenario().launch.revolution >= spread.min);
   CHECK(a.scenario().launch.revolution <= spread.max);
   CHECK(a.live().steps == 0);
+}
+
+TEST_CASE("the design review job writes the report and refuses a folder in use", "[gui][session][review]") {
+  namespace fs = std::filesystem;
+  Session session(demo());
+  session.pause();
+  const fs::path dir = fs::path(tempPath("review"));
+  fs::remove_all(dir);
+  // The job the GUI's review button starts, with options small enough for
+  // a unit test (two launches, one second runs, tiny images); the report's
+  // figures are tested with the review itself.
+  app::ReviewOptions fast;
+  fast.launches = 2;
+  fast.duration = 1.0;
+  fast.imageSize = 32;
+  fast.viewerImageSize = 16;
+  fast.threads = 1;
+  session.requestReview(dir.string(), fast);
+  CHECK(session.reviewBusy());
+  session.waitForReview();
+  CHECK_FALSE(session.reviewBusy());
+  CHECK(session.reviewStage().empty());
+  REQUIRE(session.reviewOutcome() != nullptr);
+  const ReviewOutcome first = *session.reviewOutcome();
+  INFO(first.message);
+  REQUIRE(first.written);
+  CHECK(first.folder == dir.string());
+  CHECK(first.files.size() == 2);
+  REQUIRE(fs::is_regular_file(dir / "review.html"));
+  REQUIRE(fs::is_regular_file(dir / "review.json"));
+  const nlohmann::json report = nlohmann::json::parse(readTextFile((dir / "review.json").string()));
+  REQUIRE(report["variants"].size() == 1);
+  CHECK(report["variants"][0]["name"] == session.scenario().name);  // the current scenario, as edited
+
+  // The folder now holds the report: refused with the reason, the files untouched.
+  const std::string html = readTextFile((dir / "review.html").string());
+  session.requestReview(dir.string(), fast);
+  session.waitForReview();
+  REQUIRE(session.reviewsFinished() == 2);
+  CHECK_FALSE(session.reviewOutcome()->written);
+  CHECK_THAT(session.reviewOutcome()->message, Catch::Contains(dir.string()) && Catch::Contains("already holds files"));
+  CHECK(readTextFile((dir / "review.html").string()) == html);
+
+  // A refused option comes back the same way, naming the option and its range.
+  fast.force = true;
+  fast.launches = 0;
+  session.requestReview(dir.string(), fast);
+  session.waitForReview();
+  CHECK_FALSE(session.reviewOutcome()->written);
+  CHECK_THAT(session.reviewOutcome()->message, Catch::Contains("launches") && Catch::Contains("allowed 1 to 100000"));
+  CHECK(readTextFile((dir / "review.html").string()) == html);
+}
+
+TEST_CASE("the live visitor's view finds its spots with expose's own chain", "[gui][session][observer]") {
+  Session session(demo());
+  session.pause();
+  // 3 s in: the demo rolls on rim B with end A raised (settled near 0.5 s).
+  const long steps = long(std::llround(3.0 / session.scenario().run.timeStep()));
+  for (long i = 0; i < steps; ++i) session.stepOnce();
+  constexpr int side = 96;  // px: small enough to be quick, large enough to resolve a spot
+  REQUIRE(session.requestObserverShot(side));
+  session.waitForObserver();
+  const ObserverShot* shot = session.observerShot();
+  REQUIRE(shot != nullptr);
+  REQUIRE(shot->visibleEnd == End::A);
+  CHECK(shot->spots.ring.radius > 0);
+  CHECK(shot->end - shot->start == Approx(session.scenario().observer.exposure).epsilon(1e-9));
+
+  // The same window of the core's own run through observeRun,
+  // exposeObservation and findSpots, as `dwellmark expose` does it: the
+  // live samples equal the run's bit for bit, so the picture and the spots
+  // are the same numbers.
+  Scenario s = session.scenario();
+  s.observer.imageSize = side;
+  s.observer.exposure = shot->end - shot->start;
+  SimulateOptions options;
+  options.duration = double(steps) * s.run.timeStep();
+  const auto run = std::make_shared<const RunResult>(simulate(s, options));
+  const Observation seen = observeRun(s, run, shot->start, shot->end);
+  const ExposureResult expected = exposeObservation(s, seen, shot->start, 1);
+  CHECK(seen.visibleEnd == shot->visibleEnd);
+  CHECK(shot->spots.ring.radius == seen.ring.radius);
+  REQUIRE_FALSE(expected.spots.spots.empty());  // something to compare
+  REQUIRE(shot->spots.spots.size() == expected.spots.spots.size());
+  for (std::size_t i = 0; i < expected.spots.spots.size(); ++i) {
+    CHECK(shot->spots.spots[i].azimuth == expected.spots.spots[i].azimuth);
+    CHECK(shot->spots.spots[i].contrast == expected.spots.spots[i].contrast);
+  }
+  CHECK(shot->image.rgb == expected.exposure.image.rgb);
 }

@@ -35,6 +35,12 @@ void OrbitCamera::zoom(float wheel) {
   span = std::clamp(span * factor, 0.005f, 20.0f);
 }
 
+void OrbitCamera::follow(const Vec3& p) {
+  if (!followBody) return;
+  target.x = float(p.x());
+  target.y = float(p.y());
+}
+
 glm::vec3 OrbitCamera::eye() const {
   return target + distance * glm::vec3(std::cos(pitch) * std::cos(yaw), std::cos(pitch) * std::sin(yaw), std::sin(pitch));
 }

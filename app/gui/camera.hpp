@@ -25,6 +25,8 @@ struct OrbitCamera {
   void pan(float dx, float dy, float viewHeight);
   /// Moves closer (wheel > 0) or further.
   void zoom(float wheel);
+  /// With followBody, moves the target over the body's centre `p` (lab, m).
+  void follow(const Vec3& p);
   glm::vec3 eye() const;
   gl::ViewMatrices matrices(float aspect) const;
 };

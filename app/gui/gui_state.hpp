@@ -30,7 +30,7 @@ struct Layout {
 Layout computeLayout(float width, float height, float menuHeight);
 
 /// What the file chooser is choosing for.
-enum class FileTask { Open, SaveAs, ExportView, ExportObserver, ExportCsv };
+enum class FileTask { Open, SaveAs, ExportView, ExportObserver, ExportCsv, ReviewFolder };
 
 /// The in-window file chooser.
 struct FileChooser {
@@ -46,13 +46,26 @@ struct FileChooser {
 /// An action waiting for the unsaved-changes question to be answered.
 enum class Deferred { None, NewScenario, OpenFile, Quit };
 
+/// Where one frame's time went, ms (each stage's GL work included when the
+/// frame log asks for settled timings), and what the frame redrew.
+struct FrameStages {
+  double stepMs = 0;     ///< stepping the run, picking up worker results
+  double panelsMs = 0;   ///< building the panels (ImGui, CPU), without the upload
+  double uploadMs = 0;   ///< uploading a new visitor's-view picture
+  double sceneMs = 0;    ///< building the 3D view's scene description (CPU)
+  double viewMs = 0;     ///< drawing the 3D view (GL), scene building included
+  double drawPanelsMs = 0;  ///< drawing the panels (GL)
+  double presentMs = 0;  ///< putting the pixels on the screen
+  long steps = 0;        ///< integrator steps
+  bool viewDrawn = false;
+  int panelsDrawn = 0;   ///< 0 none, 1 one live panel, 2 all panels
+};
+
 /// Frame timings for the metrics window and the frame log.
 struct FrameTimes {
   std::deque<double> frameMs;  ///< the last `capacity` whole-frame times
   std::size_t capacity = 240;
-  double stepMs = 0;           ///< simulation stepping in the last frame
-  long steps = 0;              ///< integrator steps in the last frame
-  double sceneMs = 0;          ///< building the scene description
+  FrameStages last;            ///< the stages of the last frame
   bool behind = false;         ///< the simulation could not keep up last frame
   void add(double ms);
   double mean() const;
@@ -62,8 +75,8 @@ struct FrameTimes {
 /// One row of the frame log.
 struct FrameLogRow {
   long frame;
-  double frameMs, stepMs, sceneMs;
-  long steps;
+  double frameMs;
+  FrameStages stages;
 };
 
 /// The whole UI state.
@@ -84,11 +97,15 @@ struct GuiState {
   std::vector<SurfacePreset> presets;
   std::string presetError;
   int exportWidth = 1920, exportHeight = 1200;  ///< px, picture exports
+  int reviewLaunches = 200;     ///< visitor launches of a design review (1..100000, as `review --launches`)
+  bool reviewForce = false;     ///< a review may write into a folder that already holds files
+  std::uint64_t reviewsSeen = 0;  ///< finished reviews whose outcome has been shown
   int adviceSpots = 4;                          ///< spots the advisor designs for (2..20)
   float adviceFromRevS = 6, adviceToRevS = 12;  ///< precession range a visitor reaches, rev/s
   std::string status;          ///< last message of the status line
   FrameTimes times;
   std::vector<FrameLogRow> frameLog;
+  bool settleTimings = false;  ///< wait for the GL work after each stage (frame log runs), so each stage's time is its own
   bool quit = false;           ///< leave the main loop
   bool viewDragging = false;   ///< a mouse drag that began in the 3D view is going on
   std::uint64_t builtLook = ~0ull;  ///< session look revision uploaded to the renderer
@@ -131,6 +148,8 @@ ViewScene currentScene(GuiContext& c);
 /// Renders the 3D view offscreen at the export size and writes a PNG.
 void exportViewPicture(GuiContext& c, const std::string& path);
 void exportTrajectoryCsv(GuiContext& c, const std::string& path);
+/// Starts the design review of the current scenario into `folder` on the session's worker.
+void startReview(GuiContext& c, const std::string& folder);
 /// Starts an observer exposure at the export size that writes a PNG when done.
 void exportObserverPicture(GuiContext& c, const std::string& path);
 void applyOutcome(GuiContext& c, const std::string& path, const EditOutcome& out);
@@ -143,6 +162,16 @@ struct Shortcut {
   const char* what;
 };
 const std::vector<Shortcut>& shortcuts();
+
+/// The tiled panels' window titles.
+namespace panel_title {
+inline constexpr const char* design = "Design";
+inline constexpr const char* playback = "Playback";
+inline constexpr const char* timelines = "Timelines";
+inline constexpr const char* observer = "Visitor's view";
+inline constexpr const char* readings = "Readings";
+inline constexpr const char* menuBar = "##MainMenuBar";  ///< Dear ImGui's name for the main menu bar
+}  // namespace panel_title
 
 /// Begins one of the tiled panels at its layout rectangle (fixed, not
 /// movable or resizable); pair with ImGui::End().

@@ -230,7 +230,7 @@ void applyOutcome(GuiContext& c, const std::string& path, const EditOutcome& out
 
 void drawDesignPanel(GuiContext& c) {
   const Rect& r = c.layout.design;
-  beginFixedPanel("Design", r);
+  beginFixedPanel(panel_title::design, r);
   if (ImGui::CollapsingHeader("Scenario")) {
     for (const char* path : {"name", "description"}) fieldRow(c, *findField(path), c.session.scenario(), path);
   }

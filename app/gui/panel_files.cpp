@@ -1,9 +1,11 @@
 // Files and exports: the menu bar, the in-window file chooser, the
 // unsaved-changes question, and the actions behind them (open, save,
-// pictures of the 3D view rendered offscreen, the trajectory CSV).
+// pictures of the 3D view rendered offscreen, the trajectory CSV, the
+// design review on a worker thread).
 #include <imgui.h>
 #include <imgui_stdlib.h>
 
+#include <algorithm>
 #include <filesystem>
 
 #include "app/gui/gui_state.hpp"
@@ -28,6 +30,7 @@ const char* chooserTitle(FileTask t) {
     case FileTask::ExportView: return "Export a picture of the 3D view";
     case FileTask::ExportObserver: return "Export the visitor's view";
     case FileTask::ExportCsv: return "Export the trajectory (CSV)";
+    case FileTask::ReviewFolder: return "Write a design review of this scenario into a folder (new or empty)";
   }
   return "";
 }
@@ -39,11 +42,33 @@ const char* chooserExtension(FileTask t) {
     case FileTask::ExportView:
     case FileTask::ExportObserver: return ".png";
     case FileTask::ExportCsv: return ".csv";
+    case FileTask::ReviewFolder: return "";
   }
   return "";
 }
 
-void refreshChooser(FileChooser& f) { f.entries = listFolder(f.folder, chooserExtension(f.task)); }
+const char* chooserAction(FileTask t) {
+  switch (t) {
+    case FileTask::Open: return "Open";
+    case FileTask::SaveAs: return "Save";
+    case FileTask::ReviewFolder: return "Write review";
+    default: return "Export";
+  }
+}
+
+// The folder's listing; a review chooses a folder, so it lists folders only.
+void refreshChooser(FileChooser& f) {
+  f.entries = listFolder(f.folder, chooserExtension(f.task));
+  if (f.task == FileTask::ReviewFolder)
+    f.entries.erase(std::remove_if(f.entries.begin(), f.entries.end(), [](const FolderEntry& e) { return !e.folder; }),
+                    f.entries.end());
+}
+
+// True when `path` is a folder holding anything.
+bool folderHoldsFiles(const std::string& path) {
+  std::error_code ec;
+  return fs::is_directory(path, ec) && !fs::is_empty(path, ec);
+}
 
 void openNow(GuiContext& c, const std::string& path) {
   try {
@@ -105,12 +130,23 @@ bool finishChooser(GuiContext& c, const std::string& path) {
       case FileTask::ExportView: exportViewPicture(c, path); return true;
       case FileTask::ExportObserver: exportObserverPicture(c, path); return true;
       case FileTask::ExportCsv: exportTrajectoryCsv(c, path); return true;
+      case FileTask::ReviewFolder: startReview(c, path); return true;
     }
   } catch (const std::exception& e) {
     f.error = e.what();
     return false;
   }
   return true;
+}
+
+// The review's options under the folder list: launches and the folder rule.
+void reviewOptionsRow(GuiState& ui) {
+  ImGui::SetNextItemWidth(140);
+  ImGui::InputInt("visitor launches", &ui.reviewLaunches);
+  if (ImGui::IsItemHovered()) ImGui::SetTooltip("launches of the visitor ensemble (1 to 100000), as review --launches");
+  ImGui::SameLine();
+  ImGui::Checkbox("write into a folder that holds files", &ui.reviewForce);
+  if (ImGui::IsItemHovered()) ImGui::SetTooltip("as review --force; otherwise such a folder is refused untouched");
 }
 
 void drawChooser(GuiContext& c) {
@@ -129,7 +165,8 @@ void drawChooser(GuiContext& c) {
   }
   ImGui::SameLine();
   ImGui::TextWrapped("%s", f.folder.c_str());
-  const float footer = ImGui::GetFrameHeightWithSpacing() * (f.task == FileTask::ExportView || f.task == FileTask::ExportObserver ? 4 : 3);
+  const bool extraRow = f.task == FileTask::ExportView || f.task == FileTask::ExportObserver || f.task == FileTask::ReviewFolder;
+  const float footer = ImGui::GetFrameHeightWithSpacing() * (extraRow ? 4 : 3);
   ImGui::BeginChild("entries", ImVec2(0, -footer), true);
   std::string enter;
   for (const FolderEntry& e : f.entries) {
@@ -155,17 +192,22 @@ void drawChooser(GuiContext& c) {
       c.ui.exportHeight = std::clamp(size[1], minExportSide, maxExportSide);
     }
   }
+  if (f.task == FileTask::ReviewFolder) reviewOptionsRow(c.ui);
   const std::string path = f.name.empty() ? std::string() : joinPath(f.folder, f.name);
-  if (!path.empty() && f.task != FileTask::Open && fs::exists(path)) {
+  if (!path.empty() && f.task == FileTask::ReviewFolder && folderHoldsFiles(path)) {
+    ImGui::SameLine();
+    ImGui::TextDisabled("(holds files)");
+  } else if (!path.empty() && f.task != FileTask::Open && f.task != FileTask::ReviewFolder && fs::exists(path)) {
     ImGui::SameLine();
     ImGui::TextDisabled("(replaces the existing file)");
   }
   if (!f.error.empty()) ImGui::TextColored(ImVec4(1.0f, 0.45f, 0.35f, 1.0f), "%s", f.error.c_str());
   const bool ready = !path.empty();
   if (!ready) ImGui::BeginDisabled();
-  if (ImGui::Button(f.task == FileTask::Open ? "Open" : f.task == FileTask::SaveAs ? "Save" : "Export", ImVec2(100, 0))) {
+  if (ImGui::Button(chooserAction(f.task), ImVec2(110, 0))) {
     f.error.clear();
-    const std::string target = fs::path(path).has_extension() ? path : withExtension(path, chooserExtension(f.task));
+    const bool named = f.task == FileTask::ReviewFolder || fs::path(path).has_extension();
+    const std::string target = named ? path : withExtension(path, chooserExtension(f.task));
     if (finishChooser(c, target)) {
       f.visible = false;
       ImGui::CloseCurrentPopup();
@@ -179,6 +221,43 @@ void drawChooser(GuiContext& c) {
     ImGui::CloseCurrentPopup();
   }
   ImGui::EndPopup();
+}
+
+// The review's end, once: the files it wrote, or why it wrote nothing.
+void drawReviewOutcome(GuiContext& c) {
+  const Session& s = c.session;
+  if (s.reviewsFinished() != c.ui.reviewsSeen) {
+    c.ui.reviewsSeen = s.reviewsFinished();
+    const ReviewOutcome& out = *s.reviewOutcome();
+    c.ui.status = out.written ? "wrote the design review in " + out.folder : "design review not written: " + out.message;
+    ImGui::OpenPopup("Design review");
+  }
+  if (!ImGui::BeginPopupModal("Design review", nullptr, ImGuiWindowFlags_AlwaysAutoResize)) return;
+  if (const ReviewOutcome* out = s.reviewOutcome()) {
+    if (out->written) {
+      ImGui::TextUnformatted("The design review is written:");
+      for (const std::string& f : out->files) ImGui::BulletText("%s", f.c_str());
+    } else {
+      ImGui::TextUnformatted("The design review was not written, and nothing was changed:");
+      ImGui::PushTextWrapPos(ImGui::GetFontSize() * 36);
+      ImGui::TextColored(ImVec4(1.0f, 0.45f, 0.35f, 1.0f), "%s", out->message.c_str());
+      ImGui::PopTextWrapPos();
+    }
+  }
+  if (ImGui::Button("OK", ImVec2(100, 0))) ImGui::CloseCurrentPopup();
+  ImGui::EndPopup();
+}
+
+// The menu bar's review button, or the running review's stage.
+void reviewButton(GuiContext& c) {
+  const Session& s = c.session;
+  if (s.reviewBusy()) {
+    ImGui::TextDisabled("design review: %s ...", s.reviewStage().c_str());
+    return;
+  }
+  if (ImGui::SmallButton("Design review...")) openChooser(c, FileTask::ReviewFolder);
+  if (ImGui::IsItemHovered())
+    ImGui::SetTooltip("writes review.html and review.json for this scenario, the report `dwellmark review` writes");
 }
 
 void drawUnsavedQuestion(GuiContext& c) {
@@ -239,6 +318,7 @@ void openChooser(GuiContext& c, FileTask task) {
     case FileTask::ExportView: f.name = stem + "-view.png"; break;
     case FileTask::ExportObserver: f.name = stem + "-visitor.png"; break;
     case FileTask::ExportCsv: f.name = stem + "-trajectory.csv"; break;
+    case FileTask::ReviewFolder: f.name = stem + "-review"; break;
   }
   refreshChooser(f);
 }
@@ -293,6 +373,8 @@ void drawMenuBar(GuiContext& c) {
     if (ImGui::MenuItem("Export visitor's view picture...")) openChooser(c, FileTask::ExportObserver);
     if (ImGui::MenuItem("Export trajectory CSV...", nullptr, false, s.forecast() != nullptr))
       openChooser(c, FileTask::ExportCsv);
+    if (ImGui::MenuItem("Write a design review...", nullptr, false, !s.reviewBusy()))
+      openChooser(c, FileTask::ReviewFolder);
     ImGui::Separator();
     if (ImGui::MenuItem("Quit", "Ctrl+Q")) requestQuit(c);
     ImGui::EndMenu();
@@ -323,6 +405,8 @@ void drawMenuBar(GuiContext& c) {
     ImGui::MenuItem("Keys and mouse", "F1", &c.ui.showHelp);
     ImGui::EndMenu();
   }
+  ImGui::Separator();
+  reviewButton(c);
   if (!c.ui.status.empty()) {
     ImGui::Separator();
     ImGui::TextDisabled("%s", c.ui.status.c_str());
@@ -333,6 +417,15 @@ void drawMenuBar(GuiContext& c) {
 void drawFileDialogs(GuiContext& c) {
   drawChooser(c);
   drawUnsavedQuestion(c);
+  drawReviewOutcome(c);
+}
+
+void startReview(GuiContext& c, const std::string& folder) {
+  app::ReviewOptions options;
+  options.launches = c.ui.reviewLaunches;
+  options.force = c.ui.reviewForce;
+  c.session.requestReview(folder, options);
+  c.ui.status = "writing the design review into " + folder + " ...";
 }
 
 }  // namespace dm::gui

@@ -1,16 +1,16 @@
 // The "Visitor's view" panel: the CPU observer camera's exposure of the
 // latest stretch of the run (refreshed on a worker thread as the run goes
-// on), the forecast's stops of the visible end circled on it, and the
-// predicted spot count, drift and visible end beside it.
+// on), the spots found on it circled, and their count, the visible end and
+// the pattern's drift beside it.
 #include <epoxy/gl.h>
 #include <imgui.h>
 
 #include <algorithm>
+#include <chrono>
 #include <cmath>
 #include <vector>
 
 #include "app/gui/gui_state.hpp"
-#include "core/colour.hpp"
 #include "core/constants.hpp"
 #include "core/io.hpp"
 
@@ -21,16 +21,7 @@ namespace {
 // Uploads a linear-light picture as sRGB bytes into the panel's texture.
 void upload(GuiState& ui, const ObserverShot& shot) {
   const Image& img = shot.image;
-  std::vector<unsigned char> bytes(std::size_t(img.width) * std::size_t(img.height) * 4);
-  for (int y = 0; y < img.height; ++y)
-    for (int x = 0; x < img.width; ++x) {
-      const Rgb c = img.at(x, y);
-      unsigned char* p = &bytes[(std::size_t(y) * std::size_t(img.width) + std::size_t(x)) * 4];
-      p[0] = (unsigned char)std::lround(linearToSrgb(c.r) * 255);
-      p[1] = (unsigned char)std::lround(linearToSrgb(c.g) * 255);
-      p[2] = (unsigned char)std::lround(linearToSrgb(c.b) * 255);
-      p[3] = 255;
-    }
+  const std::vector<unsigned char> bytes = srgbaBytes(img);
   if (!ui.observerTexture) glGenTextures(1, &ui.observerTexture);
   glBindTexture(GL_TEXTURE_2D, ui.observerTexture);
   glPixelStorei(GL_UNPACK_ALIGNMENT, 1);
@@ -42,19 +33,42 @@ void upload(GuiState& ui, const ObserverShot& shot) {
   ui.uploadedShotSize = img.width;
 }
 
-// Circles where the forecast's marks of the visible end stopped during the
-// picture's window: the stops pile up on the spots a visitor sees.
-void circleStops(const Session& s, const ObserverShot& shot, ImVec2 origin, float scale) {
-  const Forecast* f = s.forecast();
-  const PatternWindow* w = s.patternAt(shot.end);
-  if (!f || !w || !w->visibleEnd) return;
+// Circles the spots found on the picture's ring, each about as wide as
+// the arc it spans (at least a few pixels, so a narrow spot still shows).
+void circleSpots(const ObserverShot& shot, ImVec2 origin, float scale) {
   ImDrawList* draw = ImGui::GetWindowDrawList();
-  for (const StopEvent& e : f->pattern.stops) {
-    if (e.time < shot.start || e.time > shot.end || e.end != *w->visibleEnd) continue;
-    double x = 0, y = 0;
-    if (!shot.camera.project(e.position, x, y)) continue;
-    draw->AddCircle(ImVec2(origin.x + float(x) * scale, origin.y + float(y) * scale), 7.0f, IM_COL32(255, 236, 90, 230), 20, 1.5f);
+  const Ring& ring = shot.spots.ring;
+  auto onRing = [&](double azimuth, double radius) {
+    return Vec3(ring.centre + radius * Vec3(std::cos(azimuth), std::sin(azimuth), 0));
+  };
+  for (const ImageSpot& spot : shot.spots.spots) {
+    double x = 0, y = 0, x0 = 0, y0 = 0, x1 = 0, y1 = 0;
+    if (!shot.camera.project(onRing(spot.azimuth, spot.radius), x, y)) continue;
+    const bool ends = shot.camera.project(onRing(spot.azimuth - spot.width / 2, spot.radius), x0, y0) &&
+                      shot.camera.project(onRing(spot.azimuth + spot.width / 2, spot.radius), x1, y1);
+    const float across = ends ? float(std::hypot(x1 - x0, y1 - y0)) * scale / 2 : 0.0f;
+    draw->AddCircle(ImVec2(origin.x + float(x) * scale, origin.y + float(y) * scale),
+                    std::clamp(across + 3.0f, 6.0f, 40.0f), IM_COL32(255, 236, 90, 230), 24, 1.5f);
   }
+}
+
+// The picture's spot count and visible end, and the drift of the pattern
+// the forecast's analysis finds at the picture's time.
+void spotReadout(const Session& s, const ObserverShot& shot) {
+  const std::string end = shot.visibleEnd ? std::string(endName(*shot.visibleEnd)) : "none";
+  if (shot.visibleEnd && shot.spots.ring.radius > 0)
+    ImGui::Text("spots %zu on a %s mm ring, end %s seen", shot.spots.spots.size(),
+                fmt(shot.spots.ring.radius * 1e3, 3).c_str(), end.c_str());
+  else
+    ImGui::Text("no end raised in this window (end %s)", end.c_str());
+  if (ImGui::IsItemHovered())
+    ImGui::SetTooltip("circles: spots found on the picture along the raised end's ring (Weber contrast above %s)",
+                      fmt(shot.spots.threshold, 3).c_str());
+  if (const PatternWindow* w = s.patternAt(shot.end))
+    ImGui::Text("drift %s deg/s (%s)", fmt(w->patternDrift / k::degree, 3).c_str(),
+                std::string(patternKindName(w->kind)).c_str());
+  else
+    ImGui::TextDisabled("drift: waiting for the forecast");
 }
 
 }  // namespace
@@ -67,28 +81,25 @@ void exportObserverPicture(GuiContext& c, const std::string& path) {
 
 void drawObserverPanel(GuiContext& c) {
   const Rect& r = c.layout.observer;
-  beginFixedPanel("Visitor's view", r);
+  beginFixedPanel(panel_title::observer, r);
   const Session& s = c.session;
   const ObserverSpec& o = s.scenario().observer;
   const ObserverShot* shot = s.observerShot();
   const float side = std::max(32.0f, std::min(ImGui::GetContentRegionAvail().x, r.h - 4 * ImGui::GetTextLineHeightWithSpacing() - 40));
-  if (shot && (shot->end != c.ui.uploadedShotEnd || shot->image.width != c.ui.uploadedShotSize)) upload(c.ui, *shot);
+  if (shot && (shot->end != c.ui.uploadedShotEnd || shot->image.width != c.ui.uploadedShotSize)) {
+    const auto start = std::chrono::steady_clock::now();
+    upload(c.ui, *shot);
+    if (c.ui.settleTimings) glFinish();
+    c.ui.times.last.uploadMs = std::chrono::duration<double, std::milli>(std::chrono::steady_clock::now() - start).count();
+  }
   if (shot && c.ui.observerTexture) {
     const ImVec2 origin = ImGui::GetCursorScreenPos();
     ImGui::Image(reinterpret_cast<ImTextureID>(static_cast<intptr_t>(c.ui.observerTexture)), ImVec2(side, side));
-    circleStops(s, *shot, origin, side / float(shot->image.width));
+    circleSpots(*shot, origin, side / float(shot->image.width));
     ImGui::Text("%s, %s, %s to %s s%s", o.view == ViewKind::Top ? "top" : "eye view",
                 o.mode == ExposureMode::Eye ? "eye" : "camera", fmt(shot->start, 3).c_str(), fmt(shot->end, 3).c_str(),
                 s.observerBusy() ? " ..." : "");
-    const PatternWindow* w = s.patternAt(shot->end);
-    if (w) {
-      ImGui::Text("spots %zu (%s), end %s seen", w->spots.size(), std::string(patternKindName(w->kind)).c_str(),
-                  w->visibleEnd ? std::string(endName(*w->visibleEnd)).c_str() : "none");
-      ImGui::Text("drift %s deg/s", fmt(w->patternDrift / k::degree, 3).c_str());
-      if (ImGui::IsItemHovered()) ImGui::SetTooltip("circles: where the visible end's marks stopped in this window");
-    } else {
-      ImGui::TextDisabled("spot statistics: waiting for the forecast");
-    }
+    spotReadout(s, *shot);
   } else {
     const auto [start, end] = s.observerWindow();
     ImGui::InvisibleButton("##waiting", ImVec2(side, side * 0.4f));

@@ -115,7 +115,7 @@ void advisorSection(GuiContext& c) {
 
 void drawReadings(GuiContext& c) {
   const Rect& r = c.layout.readings;
-  beginFixedPanel("Readings", r);
+  beginFixedPanel(panel_title::readings, r);
   const Session& s = c.session;
   const Sample& now = s.live().now();
   const AxisMotion m = axisMotion(now.orientation, now.spin);

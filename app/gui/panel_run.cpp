@@ -22,6 +22,40 @@ constexpr ImU32 seriesColours[] = {IM_COL32(240, 174, 66, 255), IM_COL32(88, 196
                                    IM_COL32(226, 112, 150, 255), IM_COL32(150, 170, 240, 255),
                                    IM_COL32(200, 220, 110, 255)};
 
+// Plot line thickness, px: a whole number lets Dear ImGui draw it
+// anti-aliased from its texture with half the triangles of a fractional one.
+constexpr float plotLineWidth = 2.0f;
+
+// The plotted window of values and where it lands on screen.
+struct PlotRange {
+  double t0, dt, v0, dv;  ///< time from, time span, value from, value span
+};
+
+// The polyline of values [i0, i1) over a plot area: at most two points per
+// pixel column, the column's lowest and highest value in the order they
+// came, so a fast wobble shows as the band it sweeps rather than aliasing
+// into a slower wave.
+std::vector<ImVec2> envelope(const std::vector<double>& time, const std::vector<double>& v, std::size_t i0,
+                             std::size_t i1, const PlotRange& r, const Rect& area) {
+  std::vector<ImVec2> out;
+  auto at = [&](std::size_t i) {
+    return ImVec2(area.x + float((time[i] - r.t0) / r.dt) * area.w, area.y + area.h - float((v[i] - r.v0) / r.dv) * area.h);
+  };
+  for (std::size_t i = i0; i < i1;) {
+    // One pixel column: from sample i up to the first sample right of it.
+    const int column = int(at(i).x);
+    std::size_t lowest = i, highest = i, j = i;
+    for (; j < i1 && int(at(j).x) == column; ++j) {
+      if (v[j] < v[lowest]) lowest = j;
+      if (v[j] > v[highest]) highest = j;
+    }
+    out.push_back(at(std::min(lowest, highest)));
+    if (lowest != highest) out.push_back(at(std::max(lowest, highest)));
+    i = j;
+  }
+  return out;
+}
+
 struct Series {
   const char* title;
   const char* unit;
@@ -48,15 +82,9 @@ void plot(const Series& s, const std::vector<double>& time, double from, double 
     lo -= pad;
     hi += pad;
     const float top = p0.y + 20, bottom = p1.y - 4, left = p0.x + 4, right = p1.x - 4;
-    // At most two points per pixel column keep long runs cheap to draw.
-    const std::size_t stride = std::max<std::size_t>(1, (i1 - i0) / std::size_t(std::max(1.0f, (right - left) * 2)));
-    std::vector<ImVec2> points;
-    for (std::size_t i = i0; i < i1; i += stride) {
-      const float x = left + float((time[i] - from) / std::max(1e-9, to - from)) * (right - left);
-      const float y = bottom - float((v[i] - lo) / (hi - lo)) * (bottom - top);
-      points.emplace_back(x, y);
-    }
-    draw->AddPolyline(points.data(), int(points.size()), colour, 0, 1.5f);
+    const std::vector<ImVec2> points =
+        envelope(time, v, i0, i1, {from, std::max(1e-9, to - from), lo, hi - lo}, {left, top, right - left, bottom - top});
+    draw->AddPolyline(points.data(), int(points.size()), colour, 0, plotLineWidth);
     head += ": " + fmt(v[i1 - 1], 4) + " " + s.unit;
     const std::string range = fmt(lo + pad, 3) + " .. " + fmt(hi - pad, 3);
     const ImVec2 rangeSize = ImGui::CalcTextSize(range.c_str());
@@ -71,7 +99,7 @@ std::string secondsText(double s) { return fmt(s, s < 10 ? 3 : 4) + " s"; }
 }  // namespace
 
 void drawPlaybackBar(GuiContext& c) {
-  beginFixedPanel("Playback", c.layout.playback, ImGuiWindowFlags_NoTitleBar | ImGuiWindowFlags_NoScrollbar);
+  beginFixedPanel(panel_title::playback, c.layout.playback, ImGuiWindowFlags_NoTitleBar | ImGuiWindowFlags_NoScrollbar);
   Session& s = c.session;
   const LiveRun& live = s.live();
   // Row 1: transport, speed, clock.
@@ -121,7 +149,7 @@ void drawPlaybackBar(GuiContext& c) {
 }
 
 void drawTimelines(GuiContext& c) {
-  beginFixedPanel("Timelines", c.layout.timelines, ImGuiWindowFlags_NoScrollbar);
+  beginFixedPanel(panel_title::timelines, c.layout.timelines, ImGuiWindowFlags_NoScrollbar);
   const Timeline& tl = c.session.live().timeline;
   const Series series[] = {{"tilt", "deg", &tl.tilt_deg},
                            {"precession", "rev/s", &tl.precession_rev_s},
@@ -161,8 +189,11 @@ void drawMetricsWindow(GuiContext& c) {
   const double mean = t.mean();
   ImGui::Text("frame %.2f ms mean, %.2f ms 95th pct (%.1f frames/s)", mean, t.percentile(0.95),
               mean > 0 ? 1000.0 / mean : 0.0);
-  ImGui::Text("stepping %.2f ms for %ld steps last frame%s", t.stepMs, t.steps, t.behind ? " (behind: slowed down)" : "");
-  ImGui::Text("3D view %.2f ms", t.sceneMs);
+  const FrameStages& st = t.last;
+  ImGui::Text("stepping %.2f ms for %ld steps last frame%s", st.stepMs, st.steps, t.behind ? " (behind: slowed down)" : "");
+  ImGui::Text("panels %.2f ms to build, %.2f ms to draw", st.panelsMs, st.drawPanelsMs);
+  ImGui::Text("3D view %.2f ms (scene %.2f ms)%s", st.viewMs, st.sceneMs, st.viewDrawn ? "" : ", unchanged");
+  ImGui::Text("on screen %.2f ms", st.presentMs);
   const Session& s = c.session;
   if (s.forecastBusy()) ImGui::Text("forecast running: %.0f %%", 100 * s.forecastProgress());
   else if (const Forecast* f = s.forecast()) ImGui::Text("forecast ready: %s%s", secondsText(f->run.summary.endTime).c_str(), f->truncated ? " (truncated)" : "");
@@ -293,17 +324,17 @@ void handleViewMouse(GuiContext& c) {
   }
   if (inside && !io.WantCaptureMouse && io.MouseWheel != 0) cam.zoom(io.MouseWheel);
   // Follow the body's centre across the table.
-  if (cam.followBody) {
-    const Vec3& p = c.session.live().now().position;
-    cam.target.x = float(p.x());
-    cam.target.y = float(p.y());
-  }
+  cam.follow(c.session.live().now().position);
 }
 
 void beginFixedPanel(const char* title, const Rect& r, int extraFlags) {
   ImGui::SetNextWindowPos(ImVec2(r.x, r.y));
   ImGui::SetNextWindowSize(ImVec2(r.w, r.h));
-  ImGui::Begin(title, nullptr, ImGuiWindowFlags_NoMove | ImGuiWindowFlags_NoResize | ImGuiWindowFlags_NoCollapse | extraFlags);
+  // No background of its own: the frame is cleared to the window colour
+  // under the panels, which saves painting every pixel twice.
+  ImGui::Begin(title, nullptr,
+               ImGuiWindowFlags_NoMove | ImGuiWindowFlags_NoResize | ImGuiWindowFlags_NoCollapse |
+                   ImGuiWindowFlags_NoBackground | extraFlags);
 }
 
 void applyTheme() {

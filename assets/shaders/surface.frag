@@ -1,14 +1,12 @@
 #version 330 core
 // Ambient plus one directional key light with a soft highlight, in linear
 // light; the result is sRGB-encoded here (IEC 61966-2-1) so the window and
-// the offscreen snapshots hold the same bytes.
+// the offscreen snapshots hold the same bytes. The paint atlas is an sRGB
+// texture: sampling decodes it to linear light.
 in vec3 vNormal;
 in vec2 vAtlas;
 in vec3 vWorld;
 uniform sampler2D uPaint;
-uniform bool uPainted;
-uniform vec3 uColour;
-uniform float uOpacity;
 uniform vec3 uTowardsLight;
 uniform float uAmbient;
 uniform float uKey;
@@ -21,10 +19,10 @@ vec3 encodeSrgb(vec3 c) {
 void main() {
   vec3 towardsEye = normalize(uEye - vWorld);
   vec3 n = normalize(vNormal);
-  if (dot(n, towardsEye) < 0.0) n = -n;  // both sides lit (the bore, the plane seen from below)
-  vec3 albedo = uPainted ? texture(uPaint, vAtlas).rgb : uColour;
+  if (dot(n, towardsEye) < 0.0) n = -n;  // both sides lit (the bore seen through the open end)
+  vec3 albedo = texture(uPaint, vAtlas).rgb;
   float diffuse = max(dot(n, uTowardsLight), 0.0);
   float highlight = 0.2 * pow(max(dot(n, normalize(uTowardsLight + towardsEye)), 0.0), 40.0);
   vec3 c = albedo * (uAmbient + uKey * diffuse) + uKey * highlight;
-  fragColour = vec4(encodeSrgb(c), uOpacity);
+  fragColour = vec4(encodeSrgb(c), 1.0);
 }

@@ -1,5 +1,5 @@
 #version 330 core
-// Lit surfaces of the 3D view: the body (painted from its atlas), the table and the ceiling plane.
+// Lit surfaces of the 3D view: the body, painted from its atlas.
 layout(location = 0) in vec3 aPosition;
 layout(location = 1) in vec3 aNormal;
 layout(location = 2) in vec2 aAtlas;

@@ -64,15 +64,19 @@ GLuint link(const std::string& dir, const std::string& name) {
 GLint at(GLuint program, const char* name) { return glGetUniformLocation(program, name); }
 
 glm::vec3 vec(const Vec3& v) { return {float(v.x()), float(v.y()), float(v.z())}; }
-glm::vec3 vec(const Rgb& c) { return {float(c.r), float(c.g), float(c.b)}; }
 glm::vec3 encoded(const Rgb& c) { return {float(linearToSrgb(c.r)), float(linearToSrgb(c.g)), float(linearToSrgb(c.b))}; }
 
-// A flat surface facing straight up lit as the surface shader would, without
-// the highlight: one colour for the whole table.
+// A flat horizontal surface seen from above (or below) lit as the surface
+// shader would, without the highlight: one colour for the whole plane.
 Rgb litFromAbove(const ViewScene& s, const Rgb& albedo) {
   const double k = s.ambient + s.keyIntensity * std::max(0.0, s.towardsKeyLight.z());
   return {albedo.r * k, albedo.g * k, albedo.b * k};
 }
+Rgb litFromBelow(const ViewScene& s, const Rgb& albedo) {
+  const double k = s.ambient + s.keyIntensity * std::max(0.0, -s.towardsKeyLight.z());
+  return {albedo.r * k, albedo.g * k, albedo.b * k};
+}
+
 
 // A unit disk in the plane z = 0 (normal up), centred on the origin.
 Mesh unitDisk(int segments) {
@@ -95,6 +99,30 @@ Mesh unitSquare() {
   return m;
 }
 
+// Sides of the table's polygon: round at any zoom on a 300 mm table.
+constexpr int tableSegments = 192;
+// Behind the table (sRGB-encoded): a dark blue-grey.
+constexpr glm::vec3 backgroundColour{0.105f, 0.118f, 0.133f};
+
+// True when the table top fills the whole view: the eye is above it and
+// the ray through each corner of the view meets the table inside its
+// polygon of `segments` sides. The table is convex, so the whole view
+// then shows table.
+bool tableFillsView(const ViewScene& s, const ViewMatrices& v, const glm::mat4& clipFromWorld, int segments) {
+  const double inscribed = s.tableRadius * std::cos(k::pi / segments);
+  const glm::dmat4 worldFromClip = glm::inverse(glm::dmat4(clipFromWorld));
+  for (double cx : {-1.0, 1.0})
+    for (double cy : {-1.0, 1.0}) {
+      glm::dvec4 nearPoint = worldFromClip * glm::dvec4(cx, cy, -1, 1), farPoint = worldFromClip * glm::dvec4(cx, cy, 1, 1);
+      nearPoint /= nearPoint.w;
+      farPoint /= farPoint.w;
+      if (!(nearPoint.z > 0 && farPoint.z < 0)) return false;  // the corner does not look down through the table's plane
+      const glm::dvec4 hit = nearPoint + (nearPoint.z / (nearPoint.z - farPoint.z)) * (farPoint - nearPoint);
+      if (std::hypot(hit.x, hit.y) >= inscribed) return false;
+    }
+  return v.eye.z > 0;
+}
+
 glm::mat4 worldFromPose(const Pose& pose) {
   const Eigen::Matrix3d r = pose.worldFromBody.toRotationMatrix();
   glm::mat4 m(1.0f);
@@ -108,16 +136,17 @@ glm::mat4 worldFromPose(const Pose& pose) {
 
 SceneRenderer::SceneRenderer(const std::string& shaderDir) {
   surfaceProgram_ = link(shaderDir, "surface");
-  lineProgram_ = link(shaderDir, "line");
-  upload(disk_, unitDisk(192));
+  flatProgram_ = link(shaderDir, "flat");
+  const GLuint p = surfaceProgram_, f = flatProgram_;
+  surface_ = {at(p, "uClipFromWorld"), at(p, "uWorldFromModel"), at(p, "uNormalWorldFromModel"), at(p, "uTowardsLight"),
+              at(p, "uAmbient"),       at(p, "uKey"),            at(p, "uEye"),                  at(p, "uPaint")};
+  flat_ = {at(f, "uClipFromWorld"), at(f, "uWorldFromModel"), at(f, "uEncodedColour"), at(f, "uOpacity")};
+  upload(disk_, unitDisk(tableSegments));
   upload(square_, unitSquare());
+  // One vertex layout (a position) for both line buffers.
   glGenVertexArrays(1, &lineVao_);
   glGenBuffers(1, &lineBuffer_);
-  glBindVertexArray(lineVao_);
-  glBindBuffer(GL_ARRAY_BUFFER, lineBuffer_);
-  glEnableVertexAttribArray(0);
-  glVertexAttribPointer(0, 3, GL_FLOAT, GL_FALSE, sizeof(float) * 3, nullptr);
-  glBindVertexArray(0);
+  glGenBuffers(1, &gridBuffer_);
   GLfloat range[2] = {1, 1};
   glGetFloatv(GL_ALIASED_LINE_WIDTH_RANGE, range);
   maxLineWidth_ = range[1];
@@ -132,9 +161,10 @@ SceneRenderer::~SceneRenderer() {
   }
   glDeleteVertexArrays(1, &lineVao_);
   glDeleteBuffers(1, &lineBuffer_);
+  glDeleteBuffers(1, &gridBuffer_);
   glDeleteTextures(1, &atlas_);
   glDeleteProgram(surfaceProgram_);
-  glDeleteProgram(lineProgram_);
+  glDeleteProgram(flatProgram_);
 }
 
 void SceneRenderer::upload(Shape& shape, const Mesh& mesh) {
@@ -162,8 +192,13 @@ void SceneRenderer::upload(Shape& shape, const Mesh& mesh) {
 
 void SceneRenderer::setBodyLook(const BodyLook& look) {
   upload(body_, look.mesh);
+  // 8-bit sRGB texels: a quarter of the float atlas' memory, and the
+  // sampler decodes them to linear light before filtering.
+  const Image& a = look.atlas;
+  const std::vector<unsigned char> texels = srgbaBytes(a);
   glBindTexture(GL_TEXTURE_2D, atlas_);
-  glTexImage2D(GL_TEXTURE_2D, 0, GL_RGB32F, look.atlas.width, look.atlas.height, 0, GL_RGB, GL_FLOAT, look.atlas.rgb.data());
+  glPixelStorei(GL_UNPACK_ALIGNMENT, 1);
+  glTexImage2D(GL_TEXTURE_2D, 0, GL_SRGB8_ALPHA8, a.width, a.height, 0, GL_RGBA, GL_UNSIGNED_BYTE, texels.data());
   glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_MIN_FILTER, GL_LINEAR);
   glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_MAG_FILTER, GL_LINEAR);
   glTexParameteri(GL_TEXTURE_2D, GL_TEXTURE_WRAP_S, GL_REPEAT);  // azimuth wraps round
@@ -171,39 +206,64 @@ void SceneRenderer::setBodyLook(const BodyLook& look) {
   glBindTexture(GL_TEXTURE_2D, 0);
 }
 
+// The grid's points in one buffer, uploaded when its key changes.
+void SceneRenderer::uploadGrid(const ViewScene& scene) {
+  if (scene.gridKey == gridKey_) return;
+  std::vector<Eigen::Vector3f> points;
+  gridRanges_.clear();
+  for (const SceneLine& line : scene.grid) {
+    gridRanges_.push_back({GLint(points.size()), GLsizei(line.points.size()), encoded(line.colour), line.width, line.strip});
+    points.insert(points.end(), line.points.begin(), line.points.end());
+  }
+  glBindBuffer(GL_ARRAY_BUFFER, gridBuffer_);
+  glBufferData(GL_ARRAY_BUFFER, GLsizeiptr(points.size() * sizeof(Eigen::Vector3f)), points.data(), GL_STATIC_DRAW);
+  gridKey_ = scene.gridKey;
+}
+
 void SceneRenderer::drawSurface(const Shape& shape, const glm::mat4& worldFromModel, const glm::mat4& clipFromWorld,
-                                const ViewScene& scene, const ViewMatrices& view, bool painted, const Rgb& colour,
-                                float opacity) {
-  const GLuint p = surfaceProgram_;
-  glUniformMatrix4fv(at(p, "uClipFromWorld"), 1, GL_FALSE, glm::value_ptr(clipFromWorld));
-  glUniformMatrix4fv(at(p, "uWorldFromModel"), 1, GL_FALSE, glm::value_ptr(worldFromModel));
+                                const ViewScene& scene, const ViewMatrices& view) {
+  glUseProgram(surfaceProgram_);
+  glUniformMatrix4fv(surface_.clipFromWorld, 1, GL_FALSE, glm::value_ptr(clipFromWorld));
+  glUniformMatrix4fv(surface_.worldFromModel, 1, GL_FALSE, glm::value_ptr(worldFromModel));
   const glm::mat3 normals = glm::transpose(glm::inverse(glm::mat3(worldFromModel)));
-  glUniformMatrix3fv(at(p, "uNormalWorldFromModel"), 1, GL_FALSE, glm::value_ptr(normals));
-  glUniform1i(at(p, "uPainted"), painted ? 1 : 0);
-  glUniform3fv(at(p, "uColour"), 1, glm::value_ptr(vec(colour)));
-  glUniform1f(at(p, "uOpacity"), opacity);
-  glUniform3fv(at(p, "uTowardsLight"), 1, glm::value_ptr(vec(scene.towardsKeyLight)));
-  glUniform1f(at(p, "uAmbient"), float(scene.ambient));
-  glUniform1f(at(p, "uKey"), float(scene.keyIntensity));
-  glUniform3fv(at(p, "uEye"), 1, glm::value_ptr(view.eye));
+  glUniformMatrix3fv(surface_.normalWorldFromModel, 1, GL_FALSE, glm::value_ptr(normals));
+  glUniform3fv(surface_.towardsLight, 1, glm::value_ptr(vec(scene.towardsKeyLight)));
+  glUniform1f(surface_.ambient, float(scene.ambient));
+  glUniform1f(surface_.key, float(scene.keyIntensity));
+  glUniform3fv(surface_.eye, 1, glm::value_ptr(view.eye));
+  glActiveTexture(GL_TEXTURE0);
+  glBindTexture(GL_TEXTURE_2D, atlas_);
+  glUniform1i(surface_.paint, 0);
   glBindVertexArray(shape.vao);
   glDrawElements(GL_TRIANGLES, shape.count, GL_UNSIGNED_INT, nullptr);
 }
 
-void SceneRenderer::drawLines(const ViewScene& scene, const glm::mat4& clipFromWorld) {
-  glUseProgram(lineProgram_);
-  glUniformMatrix4fv(at(lineProgram_, "uClipFromWorld"), 1, GL_FALSE, glm::value_ptr(clipFromWorld));
+void SceneRenderer::drawFlat(const Shape& shape, const glm::mat4& worldFromModel, const glm::mat4& clipFromWorld,
+                             const glm::vec3& encodedColour, float opacity) {
+  glUseProgram(flatProgram_);
+  glUniformMatrix4fv(flat_.clipFromWorld, 1, GL_FALSE, glm::value_ptr(clipFromWorld));
+  glUniformMatrix4fv(flat_.worldFromModel, 1, GL_FALSE, glm::value_ptr(worldFromModel));
+  glUniform3fv(flat_.encodedColour, 1, glm::value_ptr(encodedColour));
+  glUniform1f(flat_.opacity, opacity);
+  glBindVertexArray(shape.vao);
+  glDrawElements(GL_TRIANGLES, shape.count, GL_UNSIGNED_INT, nullptr);
+}
+
+void SceneRenderer::drawLines(const std::vector<LineRange>& ranges, GLuint buffer, const glm::mat4& clipFromWorld) {
+  glUseProgram(flatProgram_);
+  glUniformMatrix4fv(flat_.clipFromWorld, 1, GL_FALSE, glm::value_ptr(clipFromWorld));
   const glm::mat4 identity(1.0f);
-  glUniformMatrix4fv(at(lineProgram_, "uWorldFromModel"), 1, GL_FALSE, glm::value_ptr(identity));
+  glUniformMatrix4fv(flat_.worldFromModel, 1, GL_FALSE, glm::value_ptr(identity));
+  glUniform1f(flat_.opacity, 1.0f);
   glBindVertexArray(lineVao_);
-  glBindBuffer(GL_ARRAY_BUFFER, lineBuffer_);
-  for (const SceneLine& line : scene.lines) {
-    if (line.points.size() < 2) continue;
-    glBufferData(GL_ARRAY_BUFFER, GLsizeiptr(line.points.size() * sizeof(Eigen::Vector3f)), line.points.data(),
-                 GL_STREAM_DRAW);
-    glUniform3fv(at(lineProgram_, "uEncodedColour"), 1, glm::value_ptr(encoded(line.colour)));
-    glLineWidth(std::min(line.width, maxLineWidth_));
-    glDrawArrays(line.strip ? GL_LINE_STRIP : GL_LINES, 0, GLsizei(line.points.size()));
+  glBindBuffer(GL_ARRAY_BUFFER, buffer);
+  glEnableVertexAttribArray(0);
+  glVertexAttribPointer(0, 3, GL_FLOAT, GL_FALSE, sizeof(Eigen::Vector3f), nullptr);
+  for (const LineRange& r : ranges) {
+    if (r.count < 2) continue;
+    glUniform3fv(flat_.encodedColour, 1, glm::value_ptr(r.encodedColour));
+    glLineWidth(std::min(r.width, maxLineWidth_));
+    glDrawArrays(r.strip ? GL_LINE_STRIP : GL_LINES, r.first, r.count);
   }
   glLineWidth(1);
 }
@@ -211,55 +271,62 @@ void SceneRenderer::drawLines(const ViewScene& scene, const glm::mat4& clipFromW
 // The table top: one flat lit colour (a plane facing up has the same
 // diffuse light everywhere), pushed back so the grid lines lie on it.
 void SceneRenderer::drawTable(const ViewScene& scene, const glm::mat4& clipFromWorld) {
-  glUseProgram(lineProgram_);
   const float r = float(scene.tableRadius);
   const glm::mat4 model = glm::scale(glm::mat4(1.0f), glm::vec3(r, r, 1.0f));
-  glUniformMatrix4fv(at(lineProgram_, "uClipFromWorld"), 1, GL_FALSE, glm::value_ptr(clipFromWorld));
-  glUniformMatrix4fv(at(lineProgram_, "uWorldFromModel"), 1, GL_FALSE, glm::value_ptr(model));
-  glUniform3fv(at(lineProgram_, "uEncodedColour"), 1, glm::value_ptr(encoded(litFromAbove(scene, scene.tableColour))));
   glEnable(GL_POLYGON_OFFSET_FILL);
   glPolygonOffset(1.0f, 1.0f);
-  glBindVertexArray(disk_.vao);
-  glDrawElements(GL_TRIANGLES, disk_.count, GL_UNSIGNED_INT, nullptr);
+  drawFlat(disk_, model, clipFromWorld, encoded(litFromAbove(scene, scene.tableColour)), 1.0f);
   glDisable(GL_POLYGON_OFFSET_FILL);
 }
 
+// The translucent ceiling, without writing depth: a flat plane, lit the
+// same everywhere from the side the eye is on.
+void SceneRenderer::drawCeiling(const ViewScene& scene, const ViewMatrices& view, const glm::mat4& clipFromWorld) {
+  glEnable(GL_BLEND);
+  glBlendFunc(GL_SRC_ALPHA, GL_ONE_MINUS_SRC_ALPHA);
+  glDepthMask(GL_FALSE);
+  const float h = float(scene.ceilingHalfSize);
+  const glm::mat4 model = glm::scale(glm::translate(glm::mat4(1.0f), vec(scene.ceilingCentre)), glm::vec3(h, h, 1.0f));
+  const bool fromAbove = view.eye.z >= float(scene.ceilingCentre.z());
+  const Rgb lit = fromAbove ? litFromAbove(scene, scene.ceilingColour) : litFromBelow(scene, scene.ceilingColour);
+  drawFlat(square_, model, clipFromWorld, encoded(lit), float(scene.ceilingOpacity));
+  glDepthMask(GL_TRUE);
+  glDisable(GL_BLEND);
+}
+
 void SceneRenderer::draw(const ViewScene& scene, const ViewMatrices& view, int x, int y, int width, int height) {
-  // Clear only this view's region.
+  const glm::mat4 clipFromWorld = view.clipFromView * view.viewFromWorld;
+  // Clear only this view's region: to the table's colour when the table
+  // fills it (nothing lies below the table to hide, and a clear costs far
+  // less than filling the view with triangles in software GL).
+  const bool tableEverywhere = tableFillsView(scene, view, clipFromWorld, tableSegments);
+  const glm::vec3 clear = tableEverywhere ? encoded(litFromAbove(scene, scene.tableColour)) : backgroundColour;
   glViewport(x, y, width, height);
   glEnable(GL_SCISSOR_TEST);
   glScissor(x, y, width, height);
-  glClearColor(0.105f, 0.118f, 0.133f, 1.0f);
+  glClearColor(clear.r, clear.g, clear.b, 1.0f);
   glClearDepth(1.0);
   glClear(GL_COLOR_BUFFER_BIT | GL_DEPTH_BUFFER_BIT);
   glEnable(GL_DEPTH_TEST);
   glDepthFunc(GL_LEQUAL);
   glDisable(GL_CULL_FACE);
   glDisable(GL_BLEND);
-  const glm::mat4 clipFromWorld = view.clipFromView * view.viewFromWorld;
 
-  drawTable(scene, clipFromWorld);
-  if (body_.count) {
-    glUseProgram(surfaceProgram_);
-    glActiveTexture(GL_TEXTURE0);
-    glBindTexture(GL_TEXTURE_2D, atlas_);
-    glUniform1i(at(surfaceProgram_, "uPaint"), 0);
-    drawSurface(body_, worldFromPose(scene.bodyPose), clipFromWorld, scene, view, true, {}, 1.0f);
+  if (!tableEverywhere) drawTable(scene, clipFromWorld);
+  if (body_.count) drawSurface(body_, worldFromPose(scene.bodyPose), clipFromWorld, scene, view);
+  // The grid from its kept buffer, the traces streamed this frame.
+  uploadGrid(scene);
+  drawLines(gridRanges_, gridBuffer_, clipFromWorld);
+  std::vector<Eigen::Vector3f> points;
+  std::vector<LineRange> ranges;
+  for (const SceneLine& line : scene.lines) {
+    ranges.push_back({GLint(points.size()), GLsizei(line.points.size()), encoded(line.colour), line.width, line.strip});
+    points.insert(points.end(), line.points.begin(), line.points.end());
   }
-  drawLines(scene, clipFromWorld);
-
-  // The translucent ceiling last, without writing depth.
-  if (scene.ceilingVisible) {
-    glEnable(GL_BLEND);
-    glBlendFunc(GL_SRC_ALPHA, GL_ONE_MINUS_SRC_ALPHA);
-    glDepthMask(GL_FALSE);
-    glUseProgram(surfaceProgram_);
-    const float h = float(scene.ceilingHalfSize);
-    const glm::mat4 model = glm::scale(glm::translate(glm::mat4(1.0f), vec(scene.ceilingCentre)), glm::vec3(h, h, 1.0f));
-    drawSurface(square_, model, clipFromWorld, scene, view, false, scene.ceilingColour, float(scene.ceilingOpacity));
-    glDepthMask(GL_TRUE);
-    glDisable(GL_BLEND);
-  }
+  glBindBuffer(GL_ARRAY_BUFFER, lineBuffer_);
+  glBufferData(GL_ARRAY_BUFFER, GLsizeiptr(points.size() * sizeof(Eigen::Vector3f)), points.data(), GL_STREAM_DRAW);
+  drawLines(ranges, lineBuffer_, clipFromWorld);
+  if (scene.ceilingVisible) drawCeiling(scene, view, clipFromWorld);
   glBindVertexArray(0);
   glUseProgram(0);
   glDisable(GL_DEPTH_TEST);

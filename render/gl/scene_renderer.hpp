@@ -5,6 +5,7 @@
 #pragma once
 #include <cstdint>
 #include <string>
+#include <vector>
 
 #include <epoxy/gl.h>
 #include <glm/glm.hpp>
@@ -30,10 +31,12 @@ class SceneRenderer {
   SceneRenderer(const SceneRenderer&) = delete;
   SceneRenderer& operator=(const SceneRenderer&) = delete;
 
-  /// Uploads the body's mesh and paint atlas (after a geometry or paint change).
+  /// Uploads the body's mesh and paint atlas (after a geometry or paint
+  /// change); the atlas is kept as 8-bit sRGB, decoded to linear light when sampled.
   void setBodyLook(const BodyLook& look);
   /// Draws the scene into the bound framebuffer's viewport (x, y, width, height
-  /// in pixels from the bottom left), clearing that region first.
+  /// in pixels from the bottom left), clearing that region first. The grid
+  /// is uploaded only when its key changed; the body's pose is a uniform.
   void draw(const ViewScene& scene, const ViewMatrices& view, int x, int y, int width, int height);
 
  private:
@@ -41,16 +44,39 @@ class SceneRenderer {
     GLuint vao = 0, vertices = 0, indices = 0;
     GLsizei count = 0;
   };
+  /// Uniform locations, looked up once.
+  struct SurfaceUniforms {
+    GLint clipFromWorld, worldFromModel, normalWorldFromModel, towardsLight, ambient, key, eye, paint;
+  };
+  struct FlatUniforms {
+    GLint clipFromWorld, worldFromModel, encodedColour, opacity;
+  };
+  /// A run of points in a line buffer drawn as one line or strip.
+  struct LineRange {
+    GLint first = 0;
+    GLsizei count = 0;
+    glm::vec3 encodedColour{0.0f};
+    float width = 1;
+    bool strip = true;
+  };
   void upload(Shape& shape, const Mesh& mesh);
+  void uploadGrid(const ViewScene& scene);
   void drawSurface(const Shape& shape, const glm::mat4& worldFromModel, const glm::mat4& clipFromWorld,
-                   const ViewScene& scene, const ViewMatrices& view, bool painted, const Rgb& colour, float opacity);
-  void drawLines(const ViewScene& scene, const glm::mat4& clipFromWorld);
+                   const ViewScene& scene, const ViewMatrices& view);
+  void drawFlat(const Shape& shape, const glm::mat4& worldFromModel, const glm::mat4& clipFromWorld,
+                const glm::vec3& encodedColour, float opacity);
+  void drawLines(const std::vector<LineRange>& ranges, GLuint buffer, const glm::mat4& clipFromWorld);
   void drawTable(const ViewScene& scene, const glm::mat4& clipFromWorld);
+  void drawCeiling(const ViewScene& scene, const ViewMatrices& view, const glm::mat4& clipFromWorld);
 
-  GLuint surfaceProgram_ = 0, lineProgram_ = 0;
+  GLuint surfaceProgram_ = 0, flatProgram_ = 0;
+  SurfaceUniforms surface_{};
+  FlatUniforms flat_{};
   Shape body_, disk_, square_;
   GLuint atlas_ = 0;
-  GLuint lineVao_ = 0, lineBuffer_ = 0;
+  GLuint lineVao_ = 0, lineBuffer_ = 0, gridBuffer_ = 0;
+  std::vector<LineRange> gridRanges_;
+  std::uint64_t gridKey_ = 0;  ///< ViewScene::gridKey of the uploaded grid (0: none)
   float maxLineWidth_ = 1;
 };
 

@@ -9,8 +9,7 @@
 #include "core/launch_spread.hpp"
 #include "core/io.hpp"
 #include "core/launch.hpp"
-#include "render/flicker.hpp"
-#include "render/scene.hpp"
+#include "render/observe.hpp"
 
 namespace dm::gui {
 
@@ -51,7 +50,13 @@ void Timeline::clear() {
   for (auto* v : {&time_s, &tilt_deg, &precession_rev_s, &spots_per_rev, &energy_mJ, &slip_mm_s}) v->clear();
 }
 
-Session::Session(Scenario scenario, std::string path) : scenario_(std::move(scenario)), path_(std::move(path)) {
+Session::Session(Scenario scenario, std::string path, bool background)
+    : scenario_(std::move(scenario)),
+      path_(std::move(path)),
+      forecastWorker_(background ? backgroundNice : 0),
+      observerWorker_(background ? backgroundNice : 0),
+      adviceWorker_(background ? backgroundNice : 0),
+      reviewWorker_(background ? backgroundNice : 0) {
   savedJson_ = path_.empty() ? nlohmann::json() : scenarioToJson(scenario_);
   restart();
 }
@@ -323,6 +328,7 @@ void Session::poll() {
   if (auto e = observerWorker_.takeError()) warn("observer camera failed: " + *e);
   if (auto a = adviceWorker_.take()) advice_ = std::move(*a);
   if (auto e = adviceWorker_.takeError()) warn("advisor: " + *e);
+  pollReview();
 }
 
 const Forecast* Session::forecast() const { return forecast_ ? &*forecast_ : nullptr; }
@@ -358,26 +364,25 @@ bool Session::requestObserverShot(int size, const std::string& exportPath) {
     if (!exportPath.empty()) warn("the run has not yet moved for observer.exposure_s; no picture written");
     return false;
   }
-  // The dense samples covering the window, copied for the worker.
-  Trajectory window;
+  // The dense samples covering the window, copied for the worker as a run
+  // of its own: the observation chain of `dwellmark expose` reads it.
+  auto run = std::make_shared<RunResult>();
+  run->params = live_.params;
   for (const Sample& smp : live_.recent)
-    if (smp.t >= start - 2 * live_.params.timeStep && smp.t <= end) window.samples.push_back(smp);
+    if (smp.t >= start - 2 * live_.params.timeStep && smp.t <= end) run->trajectory.samples.push_back(smp);
   Scenario s = scenario_;
   s.observer.imageSize = size;
-  const Vec3 centre(live_.now().position.x(), live_.now().position.y(), 0);
-  observerWorker_.submit([s, window, centre, start, end, exportPath](JobControl&) {
-    ExposureOptions options;
-    options.timing.mode = s.observer.mode;
-    options.timing.start = start;
-    options.timing.duration = end - start;
-    options.timing.flicker = flickerOf(s.lighting);
-    options.threads = 1;  // the other core keeps the window responsive; the picture is the same
-    options.seed = s.launch.seed;
+  s.observer.exposure = end - start;  // shorter than asked only while a camera's run is younger than its exposure
+  observerWorker_.submit([s, run, start, end, exportPath](JobControl&) {
+    const Observation seen = observeRun(s, run, start, end);
+    // One thread: the other core keeps the window responsive; the picture is the same.
+    const ExposureResult e = exposeObservation(s, seen, start, 1);
     ObserverShot shot;
-    shot.camera = cameraOf(s.observer, centre);
-    const Exposure e = expose(sceneOf(s), shot.camera, poseSourceOf(window), options);
-    shot.image = e.image;
-    shot.stats = e.stats;
+    shot.image = e.exposure.image;
+    shot.camera = e.camera;
+    shot.stats = e.exposure.stats;
+    shot.spots = e.spots;
+    shot.visibleEnd = seen.visibleEnd;
     shot.start = start;
     shot.end = end;
     if (!exportPath.empty()) {
@@ -404,6 +409,56 @@ void Session::waitForObserver() {
 void Session::requestAdvice(int spots, double from, double to) {
   const Cylinder section = cylinderOf(scenario_.body);
   adviceWorker_.submit([section, spots, from, to](JobControl&) { return adviseLength(section, spots, from, to); });
+}
+
+// ---- design review -------------------------------------------------------------
+
+void Session::requestReview(const std::string& folder, app::ReviewOptions options) {
+  const std::vector<Scenario> variants{scenario_};
+  reviewFolder_ = folder;
+  auto stage = reviewStage_;
+  {
+    std::lock_guard lock(stage->mutex);
+    stage->text = "starting";
+  }
+  reviewWorker_.submit([variants, folder, options, stage](JobControl& control) mutable {
+    // Each stage the review reports is shown, and is a point where a newer request cancels it.
+    options.progress = [&control, stage](const std::string& what) {
+      control.check();
+      std::lock_guard lock(stage->mutex);
+      stage->text = what;
+    };
+    ReviewOutcome out;
+    out.folder = folder;
+    out.files = app::writeReview(variants, folder, options);
+    out.written = true;
+    return out;
+  });
+}
+
+// Picks up a finished review: its files, or why it wrote nothing.
+void Session::pollReview() {
+  std::optional<ReviewOutcome> done = reviewWorker_.take();
+  if (const std::optional<std::string> error = reviewWorker_.takeError()) {
+    done = ReviewOutcome{};
+    done->folder = reviewFolder_;
+    done->message = *error;
+  }
+  if (!done) return;
+  review_ = std::move(done);
+  ++reviewsFinished_;
+  std::lock_guard lock(reviewStage_->mutex);
+  reviewStage_->text.clear();
+}
+
+std::string Session::reviewStage() const {
+  std::lock_guard lock(reviewStage_->mutex);
+  return reviewStage_->text;
+}
+
+void Session::waitForReview() {
+  reviewWorker_.wait();
+  poll();
 }
 
 void Session::warn(std::string message) {

@@ -6,6 +6,8 @@
 // an accepted edit that changes the motion restarts the run.
 #pragma once
 #include <cstdint>
+#include <memory>
+#include <mutex>
 #include <optional>
 #include <string>
 #include <vector>
@@ -13,6 +15,7 @@
 #include <nlohmann/json.hpp>
 
 #include "app/gui/model/worker.hpp"
+#include "app/review.hpp"
 #include "core/dynamics.hpp"
 #include "core/kinematics.hpp"
 #include "core/advise.hpp"
@@ -21,6 +24,7 @@
 #include "core/simulate.hpp"
 #include "render/camera.hpp"
 #include "render/expose.hpp"
+#include "render/spots.hpp"
 
 namespace dm::gui {
 
@@ -70,12 +74,16 @@ struct Forecast {
   bool truncated = false;  ///< covers only the first maxForecastSteps steps
 };
 
-/// One exposure of the observer camera over the latest stretch of the run.
+/// One exposure of the observer camera over the latest stretch of the run,
+/// and the spots found on it: the same observation, exposure and spot
+/// detection as `dwellmark expose` (render/observe.hpp).
 struct ObserverShot {
   Image image;          ///< what the observer perceives, linear light
   Camera camera;        ///< the camera it was taken with (maps lab points to pixels)
   double start = 0, end = 0;  ///< s, the exposed window of simulated time
   ExposureStats stats;
+  SpotReport spots;     ///< spots found on the ring of the visible end (none when no end is raised)
+  std::optional<End> visibleEnd;  ///< the raised end, whose marks make the spots
   std::string savedTo;  ///< file written for an export ("" for the live panel)
 };
 
@@ -84,15 +92,30 @@ inline constexpr int liveObserverSize = 256;
 /// Simulated time between live observer refreshes, s.
 inline constexpr double observerRefresh = 0.25;
 
+/// How a design review ended.
+struct ReviewOutcome {
+  bool written = false;              ///< false: refused or failed, nothing written
+  std::string folder;                ///< where it was asked for
+  std::vector<std::string> files;    ///< the files written
+  std::string message;               ///< why it was refused (field or folder, value, allowed range)
+};
+
 /// What one advance() did.
 struct AdvanceReport {
   long steps = 0;
   bool behind = false;  ///< ran out of wall-time budget before reaching the target time
 };
 
+/// Nice increment of the session's workers when they run in the background
+/// of a window (Session's `background`): they then get a core mostly when
+/// the frame loop leaves it idle.
+inline constexpr int backgroundNice = 5;
+
 class Session {
  public:
-  explicit Session(Scenario scenario, std::string path = {});
+  /// With `background`, the worker threads run at a lower priority than the
+  /// caller (a window's frame loop); tests leave it off.
+  explicit Session(Scenario scenario, std::string path = {}, bool background = false);
 
   const Scenario& scenario() const { return scenario_; }
   /// The file this scenario was opened from or last saved to ("" when new).
@@ -190,6 +213,22 @@ class Session {
   const DimensionAdvice* advice() const { return advice_ ? &*advice_ : nullptr; }
   bool adviceBusy() const { return adviceWorker_.busy(); }
 
+  // ---- design review (worker thread) ---------------------------------------
+  /// Starts writing the design review of the current scenario into
+  /// `folder`: app::writeReview, the same report as `dwellmark review`
+  /// (folder rules included: new or empty unless options.force). A
+  /// refusal or failure becomes the outcome's message.
+  void requestReview(const std::string& folder, app::ReviewOptions options);
+  bool reviewBusy() const { return reviewWorker_.busy(); }
+  /// The stage the running review has reached ("" when none runs).
+  std::string reviewStage() const;
+  /// The last finished review, if any.
+  const ReviewOutcome* reviewOutcome() const { return review_ ? &*review_ : nullptr; }
+  /// How many reviews have finished (written or not): a change means a new outcome.
+  std::uint64_t reviewsFinished() const { return reviewsFinished_; }
+  /// Blocks until the review is done (tests).
+  void waitForReview();
+
   /// Messages the session wants shown (refused edits, faults, job errors), oldest first.
   const std::vector<std::string>& warnings() const { return warnings_; }
   void clearWarnings() { warnings_.clear(); }
@@ -206,6 +245,7 @@ class Session {
   void stepLive();
   void record(const State& before, const Sample& sample);
   void startForecast();
+  void pollReview();
   void warn(std::string message);
 
   Scenario scenario_;
@@ -223,9 +263,19 @@ class Session {
   std::optional<ObserverShot> shot_;
   std::optional<DimensionAdvice> advice_;
   double lastShotRequest_ = -1e9;  ///< simulated time of the last live request, s
+  std::optional<ReviewOutcome> review_;
+  std::uint64_t reviewsFinished_ = 0;
+  std::string reviewFolder_;  ///< folder of the review asked for last
+  /// The running review's stage, written by the worker, read by the UI.
+  struct ReviewStage {
+    mutable std::mutex mutex;
+    std::string text;
+  };
+  std::shared_ptr<ReviewStage> reviewStage_ = std::make_shared<ReviewStage>();
   Worker<Forecast> forecastWorker_;  // workers last: they stop before the members above go
   Worker<ObserverShot> observerWorker_;
   Worker<DimensionAdvice> adviceWorker_;
+  Worker<ReviewOutcome> reviewWorker_;
 };
 
 /// True when a change of this field path changes the motion (and so restarts the run).

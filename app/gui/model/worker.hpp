@@ -12,6 +12,10 @@
 #include <string>
 #include <thread>
 
+#include <sys/resource.h>
+#include <sys/syscall.h>
+#include <unistd.h>
+
 namespace dm::gui {
 
 /// Thrown inside a task by JobControl::check() when a newer request or
@@ -33,7 +37,14 @@ class Worker {
  public:
   using Task = std::function<Result(JobControl&)>;
 
-  Worker() : thread_([this](std::stop_token stop) { loop(stop); }) {}
+  /// `niceIncrement` > 0 lowers the thread's priority by that much (Linux
+  /// nice values are per thread), so that background work yields the cores
+  /// to the window's frame loop and software GL threads; 0 leaves it as is.
+  explicit Worker(int niceIncrement = 0)
+      : thread_([this, niceIncrement](std::stop_token stop) {
+          if (niceIncrement > 0) lowerPriority(niceIncrement);
+          loop(stop);
+        }) {}
   ~Worker() {
     {
       std::lock_guard lock(mutex_);
@@ -85,6 +96,12 @@ class Worker {
   }
 
  private:
+  // Raises this thread's nice value; failing to is harmless (the work is the same).
+  static void lowerPriority(int increment) {
+    const id_t self = id_t(syscall(SYS_gettid));
+    setpriority(PRIO_PROCESS, self, getpriority(PRIO_PROCESS, self) + increment);
+  }
+
   // Takes the newest request, runs it unlocked, keeps its result unless a
   // newer request arrived meanwhile.
   void loop(std::stop_token stop) {
