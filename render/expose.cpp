@@ -53,13 +53,19 @@ BodyFrame lerpFrame(const BodyFrame& a, const BodyFrame& b, double u) {
   return f;
 }
 
-// A lab point of the body as the interpolated frame places it (inverse of the map).
-Vec3 labPointOf(const BodyFrame& f, const Vec3& bodyPoint) {
-  Mat3 m;
-  for (int r = 0; r < 3; ++r)
-    for (int c = 0; c < 3; ++c) m(r, c) = f.rotation[3 * r + c];
-  return m.inverse() * (bodyPoint + Vec3(f.shift[0], f.shift[1], f.shift[2]));
-}
+// Where an interpolated frame places body points in the lab (the inverse
+// of its map, inverted once for all the points asked).
+struct LabPlacement {
+  Mat3 labFromBody;
+  Vec3 shift;
+  explicit LabPlacement(const BodyFrame& f) : shift(f.shift[0], f.shift[1], f.shift[2]) {
+    Mat3 m;
+    for (int r = 0; r < 3; ++r)
+      for (int c = 0; c < 3; ++c) m(r, c) = f.rotation[3 * r + c];
+    labFromBody = m.inverse();
+  }
+  Vec3 operator()(const Vec3& bodyPoint) const { return labFromBody * (bodyPoint + shift); }
+};
 
 // ---- one sample -----------------------------------------------------------
 
@@ -99,29 +105,54 @@ RayMap lerpMap(const RayMap& a, const RayMap& b, double u) {
   return m;
 }
 
-// A ray map ready for sampling: with an orthographic camera every ray has
-// the same direction, so its terms are worked out once.
+// A ray map ready for sampling along one row at a time: with an
+// orthographic camera every ray has the same direction, so its terms are
+// worked out once; the row's terms y oy and y dy once per row.
 struct SamplingMap {
   RayMap map;
   bool sharedDirection = false;
+  Vec3 direction = -Vec3::UnitZ();  // the shared direction (orthographic)
   DirectionTerms terms{Vec3::UnitZ()};
+  double rowOrigin[3] = {0, 0, 0}, rowDirection[3] = {0, 0, 0};
   SamplingMap(const RayMap& m, bool orthographic)
-      : map(m), sharedDirection(orthographic), terms(Vec3(m.v[9], m.v[10], m.v[11])) {}
+      : map(m), sharedDirection(orthographic), direction(m.v[9], m.v[10], m.v[11]), terms(direction) {}
+  // Sets the row terms for image row y.
+  void setRow(double y) {
+    for (int r = 0; r < 3; ++r) {
+      rowOrigin[r] = y * map.v[6 + r];
+      rowDirection[r] = y * map.v[15 + r];
+    }
+  }
+  // The origin of the ray of image point x on the current row.
+  Vec3 originAt(double x) const {
+    const double* v = map.v;
+    return {v[0] + x * v[3] + rowOrigin[0], v[1] + x * v[4] + rowOrigin[1], v[2] + x * v[5] + rowOrigin[2]};
+  }
 };
 
-// Radiance (unflickered) where the ray of image point (x, y) meets the body
-// placed by the map; false when it misses the body or meets the table first
-// (at ray parameter `tableT`).
-bool bodyRadiance(const SceneLook& scene, const BodyShape& shape, const PaintLookup& paint, const SamplingMap& sm,
-                  double x, double y, double tableT, Rgb& radiance) {
+// The ray of image point x on the map's current row in body coordinates
+// as the map places the body: origin o and direction d.
+inline void pixelRay(const SamplingMap& sm, double x, Vec3& o, Vec3& d) {
   const double* v = sm.map.v;
-  const Vec3 o(v[0] + x * v[3] + y * v[6], v[1] + x * v[4] + y * v[7], v[2] + x * v[5] + y * v[8]);
-  const Vec3 d(v[9] + x * v[12] + y * v[15], v[10] + x * v[13] + y * v[16], v[11] + x * v[14] + y * v[17]);
+  o = sm.originAt(x);
+  d = sm.sharedDirection ? sm.direction
+                         : Vec3(v[9] + x * v[12] + sm.rowDirection[0], v[10] + x * v[13] + sm.rowDirection[1],
+                                v[11] + x * v[14] + sm.rowDirection[2]);
+}
+
+// Radiance (unflickered) where the ray of image point x on the map's
+// current row meets the body placed by the map; false when it misses the
+// body or meets the table first (at ray parameter `tableT`).
+bool bodyRadiance(const SceneLook& scene, const BodyShape& shape, const PaintLookup& paint, const SamplingMap& sm,
+                  double x, double tableT, Rgb& radiance) {
+  Vec3 o, d;
+  pixelRay(sm, x, o, d);
   BodyHit hit;
   const bool met = sm.sharedDirection ? intersectBody(shape, o, d, sm.terms, hit)
                                       : intersectBody(shape, o, d, DirectionTerms(d), hit);
   if (!met || hit.t >= tableT) return false;
-  const double cosKey = hit.normal.x() * v[18] + hit.normal.y() * v[19] + hit.normal.z() * v[20];
+  const double* light = sm.map.v + 18;
+  const double cosKey = hit.normal.x() * light[0] + hit.normal.y() * light[1] + hit.normal.z() * light[2];
   radiance = shade(scene.lights, paint.albedoAt(hit), cosKey);
   return true;
 }
@@ -143,8 +174,8 @@ std::vector<Vec3> rimPoints(const Cylinder& c) {
 
 // Largest image distance (px) between where two placements put the same
 // rim sample; infinity when a point is not in front of the camera.
-double largestImageGap(const Camera& camera, const std::vector<Vec3>& rim, const std::function<Vec3(const Vec3&)>& placeA,
-                       const std::function<Vec3(const Vec3&)>& placeB) {
+template <class PlaceA, class PlaceB>
+double largestImageGap(const Camera& camera, const std::vector<Vec3>& rim, const PlaceA& placeA, const PlaceB& placeB) {
   double gap = 0;
   for (const Vec3& b : rim) {
     double xa, ya, xb, yb;
@@ -178,16 +209,52 @@ constexpr double maxStratumTurn = 0.09;
 // Most strata one exposure may use (memory: about 400 bytes each).
 constexpr std::size_t maxStrata = 2'000'000;
 
-// A knot: the pose at a stratum boundary, its body frame, and the body's
-// bounding capsule in the image (the projected axis, widened by the radius).
+// The body's outline in the image at one instant: the images of the axis
+// ends, the unit vector and length (px) from end A's to end B's, and each
+// end's outline, an ellipse with semi-axes `acrossPx` across the projected
+// axis and `alongPx` along it. With an orthographic camera the ellipse is
+// the rim circle's exact image (R across, R |axis . forward| along); in
+// perspective a disc holding the image of a ball of radius R about the end.
+// The body's image is then the two end ellipses and the rectangle of the
+// axis widened by acrossPx between them (the hull of the two rims).
+struct Outline {
+  double ax = 0, ay = 0, bx = 0, by = 0;
+  double ux = 1, uy = 0, length = 0;
+  double acrossPx = 0, alongPx = 0;
+  bool bounded = false;  // false: the outline is unknown, sample the whole image
+};
+
+Outline outlineOf(const Cylinder& c, const Camera& camera, const Pose& pose) {
+  Outline k;
+  const Vec3 endA = pose.toWorld(Vec3(0, 0, c.length / 2)), endB = pose.toWorld(Vec3(0, 0, -c.length / 2));
+  if (!camera.project(endA, k.ax, k.ay) || !camera.project(endB, k.bx, k.by)) return k;
+  k.length = std::hypot(k.bx - k.ax, k.by - k.ay);
+  if (k.length > 1e-9) {
+    k.ux = (k.bx - k.ax) / k.length;
+    k.uy = (k.by - k.ay) / k.length;
+  }
+  if (camera.orthographic) {
+    k.acrossPx = c.outerRadius / camera.pixelScale;
+    k.alongPx = k.acrossPx * std::abs((pose.worldFromBody * Vec3::UnitZ()).dot(camera.forward));
+  } else {
+    // A ball of radius R at depth z projects within R / ((z - R) s) pixels of
+    // its centre on the axis, and within 1/cos^2 of that off the axis.
+    const double nearest = std::min(camera.depthOf(endA), camera.depthOf(endB)) - c.outerRadius;
+    if (nearest <= 1e-6) return k;
+    const double offAxis = std::cos(camera.halfDiagonalAngle());
+    k.acrossPx = k.alongPx = c.outerRadius / (nearest * camera.pixelScale) / (offAxis * offAxis);
+  }
+  k.bounded = true;
+  return k;
+}
+
+// A knot: the pose at a stratum boundary, its body frame, ray map and outline.
 struct Knot {
   double t = 0;
   Pose pose;
   BodyFrame frame;
   RayMap map;
-  double ax = 0, ay = 0, bx = 0, by = 0;  // image of the axis ends
-  double radiusPx = 0;                    // capsule radius
-  bool bounded = false;                   // false: the capsule is unknown, sample the whole image
+  Outline outline;
 };
 
 Knot makeKnot(const SceneLook& scene, const Camera& camera, double t, const Pose& pose) {
@@ -196,20 +263,7 @@ Knot makeKnot(const SceneLook& scene, const Camera& camera, double t, const Pose
   k.pose = pose;
   k.frame = bodyFrameOf(pose, scene.lights.keyDirection);
   k.map = rayMapOf(camera, k.frame);
-  const Cylinder& c = scene.body;
-  const Vec3 endA = pose.toWorld(Vec3(0, 0, c.length / 2)), endB = pose.toWorld(Vec3(0, 0, -c.length / 2));
-  if (!camera.project(endA, k.ax, k.ay) || !camera.project(endB, k.bx, k.by)) return k;
-  if (camera.orthographic) {
-    k.radiusPx = c.outerRadius / camera.pixelScale;
-  } else {
-    // A ball of radius R at depth z projects within R / ((z - R) s) pixels of
-    // its centre on the axis, and within 1/cos^2 of that off the axis.
-    const double nearest = std::min(camera.depthOf(endA), camera.depthOf(endB)) - c.outerRadius;
-    if (nearest <= 1e-6) return k;
-    const double offAxis = std::cos(camera.halfDiagonalAngle());
-    k.radiusPx = c.outerRadius / (nearest * camera.pixelScale) / (offAxis * offAxis);
-  }
-  k.bounded = true;
+  k.outline = outlineOf(scene.body, camera, pose);
   return k;
 }
 
@@ -281,11 +335,10 @@ TimeGrid buildTimeGrid(const SceneLook& scene, const Camera& camera, const PoseS
     stats.fastestImageSpeed = std::max(stats.fastestImageSpeed, grid.strata[s].stepPx / (b.t - a.t));
     const double mid = 0.5 * (a.t + b.t);
     const Pose truePose = poses(mid);
-    const BodyFrame drawn = lerpFrame(a.frame, b.frame, 0.5);
+    const LabPlacement drawn(lerpFrame(a.frame, b.frame, 0.5));
     stats.interpolationErrorPx = std::max(
         stats.interpolationErrorPx,
-        largestImageGap(
-            camera, rim, [&](const Vec3& p) { return truePose.toWorld(p); }, [&](const Vec3& p) { return labPointOf(drawn, p); }));
+        largestImageGap(camera, rim, [&](const Vec3& p) { return truePose.toWorld(p); }, drawn));
   }
   return grid;
 }
@@ -322,14 +375,6 @@ struct Span {
   }
 };
 
-// Where the line y = yc crosses the disc of radius r about (cx, cy).
-Span discSpan(double cx, double cy, double r, double yc) {
-  const double dy = yc - cy;
-  if (std::abs(dy) > r) return {};
-  const double w = std::sqrt(r * r - dy * dy);
-  return {cx - w, cx + w};
-}
-
 // Where the line y = yc has lo <= (x - x0) gain + offset <= hi.
 Span slabSpan(double gain, double offset, double lo, double hi, double x0) {
   if (std::abs(gain) < 1e-12) {
@@ -341,18 +386,55 @@ Span slabSpan(double gain, double offset, double lo, double hi, double x0) {
   return {x0 + a, x0 + b};
 }
 
-// Columns [first, last] of the row whose centre is at image y = `yc` that a
-// capsule (segment a-b widened by `radius` px) covers; false when none. The
-// capsule is the union of the two end discs and the rectangle between them,
-// so the row's span is the union of their three spans.
-bool capsuleColumns(const Knot& k, double radius, double yc, int width, int& first, int& last) {
-  Span span = discSpan(k.ax, k.ay, radius, yc);
-  span.unite(discSpan(k.bx, k.by, radius, yc));
-  const double len = std::hypot(k.bx - k.ax, k.by - k.ay);
-  if (len > 1e-9) {
-    const double ux = (k.bx - k.ax) / len, uy = (k.by - k.ay) / len;
-    const Span along = slabSpan(ux, (yc - k.ay) * uy, 0, len, k.ax);
-    const Span across = slabSpan(-uy, (yc - k.ay) * ux, -radius, radius, k.ax);
+// Margin (px) added to the outline on top of the stratum's motion: covers
+// the perspective ball bound's first-order terms.
+constexpr double outlineMarginPx = 1.0;
+
+// An outline widened by w px in every direction, for one stratum: every
+// point within w of the outline lies inside. An end ellipse E (semi-axes a
+// across, b along, b <= a) widened by w lies in the ellipse of semi-axes
+// a + w and sqrt(b^2 + w^2 + w (a + b^2 / a)): the support function of E
+// plus w, squared, is a^2 c^2 + b^2 s^2 + 2 w h + w^2 with h the support,
+// and 2 h <= a + h^2 / a gives at most (a + w)^2 c^2 + (b^2 + w^2 + w (a + b^2/a)) s^2.
+// Sliding that ellipse along the axis sweeps the two end ellipses and the
+// rectangle of half-width a + w between them.
+struct OutlineBound {
+  Outline outline;
+  double across = 0, along = 0;  // widened end ellipse's semi-axes, px
+  // The end ellipse's rows: x - cx = (-q dy +- sqrt(p - dy^2 / (across along)^2)) / p.
+  double p = 0, q = 0, invAxes2 = 0;
+  OutlineBound(const Outline& o, double w);
+  // The span of row y = yc within the end ellipse about (cx, cy).
+  Span endSpan(double cx, double cy, double yc) const;
+};
+
+OutlineBound::OutlineBound(const Outline& o, double w) : outline(o) {
+  const double a = o.acrossPx, b = o.alongPx;
+  across = a + w;
+  along = std::sqrt(b * b + w * w + w * (a + b * b / a));
+  const double invAcross2 = 1.0 / (across * across), invAlong2 = 1.0 / (along * along);
+  p = o.ux * o.ux * invAlong2 + o.uy * o.uy * invAcross2;
+  q = o.ux * o.uy * (invAlong2 - invAcross2);
+  invAxes2 = invAcross2 * invAlong2;
+}
+
+Span OutlineBound::endSpan(double cx, double cy, double yc) const {
+  const double dy = yc - cy, disc = p - dy * dy * invAxes2;
+  if (disc < 0) return {};
+  const double mid = cx - q * dy / p, half = std::sqrt(disc) / p;
+  return {mid - half, mid + half};
+}
+
+// Columns [first, last] of the row whose centre is at image y = `yc` that
+// the widened outline covers; false when none: the union of the spans of
+// the two end ellipses and of the rectangle between them.
+bool outlineColumns(const OutlineBound& bound, double yc, int width, int& first, int& last) {
+  const Outline& k = bound.outline;
+  Span span = bound.endSpan(k.ax, k.ay, yc);
+  span.unite(bound.endSpan(k.bx, k.by, yc));
+  if (k.length > 1e-9) {
+    const Span along = slabSpan(k.ux, (yc - k.ay) * k.uy, 0, k.length, k.ax);
+    const Span across = slabSpan(-k.uy, (yc - k.ay) * k.ux, -bound.across, bound.across, k.ax);
     const Span rect{std::max(along.lo, across.lo), std::min(along.hi, across.hi)};
     if (rect.lo <= rect.hi) span.unite(rect);
   }
@@ -361,10 +443,6 @@ bool capsuleColumns(const Knot& k, double radius, double yc, int width, int& fir
   last = std::min(width - 1, int(std::floor(span.hi - 0.5)));
   return first <= last;
 }
-
-// Margin (px) added to the capsule on top of the stratum's motion: covers
-// the perspective ball bound's first-order terms.
-constexpr double capsuleMarginPx = 1.0;
 
 struct ExposeJob {
   const SceneLook& scene;
@@ -376,19 +454,102 @@ struct ExposeJob {
   double lightTotal = 0, weightTotal = 0;
 };
 
-// Exposes rows [row0, row1) into the output images; returns the body samples cast.
-std::uint64_t exposeRows(const ExposeJob& job, int row0, int row1, Exposure& out) {
-  const int width = job.camera.width;
-  const std::size_t n = std::size_t(row1 - row0) * std::size_t(width);
-  std::vector<double> sum(3 * n, 0.0), cover(n, 0.0), table(n);
-  std::vector<int> phase(n);
-  for (int y = row0; y < row1; ++y)
+// The film of a block of rows: per pixel the sums of weight x radiance
+// (three per pixel) and of the weight the body covered, the ray parameter
+// of the table, and the sample phase.
+struct BlockFilm {
+  int row0 = 0, width = 0;
+  std::vector<double> sum, cover, table;
+  std::vector<int> phase;
+  BlockFilm(const ExposeJob& job, int firstRow, int rowEnd);
+};
+
+BlockFilm::BlockFilm(const ExposeJob& job, int firstRow, int rowEnd) : row0(firstRow), width(job.camera.width) {
+  const std::size_t n = std::size_t(rowEnd - row0) * std::size_t(width);
+  sum.assign(3 * n, 0.0);
+  cover.assign(n, 0.0);
+  table.resize(n);
+  phase.resize(n);
+  for (int y = row0; y < rowEnd; ++y)
     for (int x = 0; x < width; ++x) {
       const std::size_t i = std::size_t(y - row0) * std::size_t(width) + std::size_t(x);
       table[i] = tableDistance(job.camera.rayAt(x + 0.5, y + 0.5));
       phase[i] = samplePhase(job.options.seed, std::size_t(y) * std::size_t(width) + std::size_t(x));
     }
-  // Stratum by stratum: every pixel the body's capsule can reach takes its sample.
+}
+
+// What the common case of a sample needs: a hit on the outer surface where
+// no marking reaches. A local copy, so that the film's stores cannot alias
+// it and the compiler keeps it in registers.
+struct PlainOuterLook {
+  BodyShape shape;
+  PaintLookup::Stretch plain;
+  SceneLights lights;
+  Rgb body;
+};
+
+// Radiance (unflickered) of the sample of image point x on the map's
+// current row, as bodyRadiance() gives it, with the outer surface worked
+// out in place and the commonest case, where no marking reaches, in plain
+// numbers.
+[[gnu::always_inline]] inline bool sampleRadiance(const ExposeJob& job, const PlainOuterLook& look,
+                                                  const SamplingMap& sm, double x, double tableT, Rgb& radiance) {
+  if (!sm.sharedDirection) return bodyRadiance(job.scene, job.shape, job.paint, sm, x, tableT, radiance);
+  const Vec3 o = sm.originAt(x);
+  const Vec3& d = sm.direction;
+  const double* light = sm.map.v + 18;
+  BoundsCrossing c;
+  if (!crossCylinder(look.shape, o, d, sm.terms, c)) return false;
+  const double t = c.cylIn, z = o.z() + t * d.z();
+  // The outer normal (x, y, 0) / R at cylIn, as scene_detail::wallHit() gives it.
+  const double nx = (o.x() + t * d.x()) * look.shape.invOuter, ny = (o.y() + t * d.y()) * look.shape.invOuter;
+  const double cosKey = nx * light[0] + ny * light[1] + 0.0 * light[2];
+  // Entering the outer surface in the plain stretch, which lies a margin
+  // many orders above rounding inside the ends: the slab test would pass,
+  // with enter = cylIn and leave = min(cylOut, slabOut) = cylOut, and is skipped.
+  if (look.plain.contains(z) && t > 0 && t < c.cylOut && t < tableT) {
+    radiance = shade(look.lights, look.body, cosKey);
+    return true;
+  }
+  if (!crossSlab(look.shape, o, d, sm.terms, c)) return false;
+  if (c.throughOuter()) {
+    if (t >= tableT) return false;
+    BodyHit hit;
+    scene_detail::wallHit(o, d, t, SurfacePart::Outer, look.shape.outer, look.shape.invOuter, 1.0, hit);
+    radiance = shade(look.lights, job.paint.albedoAt(hit), cosKey);
+    return true;
+  }
+  // Through an end plane: in full (recomputing keeps this path's values out of memory).
+  return bodyRadiance(job.scene, job.shape, job.paint, sm, x, tableT, radiance);
+}
+
+// Samples columns [first, last] of row y in one stratum of weight `light`
+// into the film, with the stratum's maps, one per phase.
+void sampleRow(const ExposeJob& job, std::vector<SamplingMap>& maps, int y, int first, int last, double light,
+               BlockFilm& film) {
+  for (SamplingMap& m : maps) m.setRow(y + 0.5);
+  const PlainOuterLook look{job.shape, job.paint.plainStretch(), job.scene.lights, job.paint.bodyColour()};
+  const std::size_t rowStart = std::size_t(y - film.row0) * std::size_t(film.width);
+  const SamplingMap* phaseMaps = maps.data();
+  const int* phase = film.phase.data() + rowStart;
+  const double* table = film.table.data() + rowStart;
+  double* sum = film.sum.data() + 3 * rowStart;
+  double* cover = film.cover.data() + rowStart;
+  for (int x = first; x <= last; ++x) {
+    Rgb c;
+    if (!sampleRadiance(job, look, phaseMaps[phase[x]], x + 0.5, table[x], c)) continue;
+    sum[3 * x] += light * c.r;
+    sum[3 * x + 1] += light * c.g;
+    sum[3 * x + 2] += light * c.b;
+    cover[x] += light;
+  }
+}
+
+// Exposes rows [row0, row1) into the output images; returns the body samples cast.
+std::uint64_t exposeRows(const ExposeJob& job, int row0, int row1, Exposure& out) {
+  const int width = job.camera.width;
+  BlockFilm film(job, row0, row1);
+  // Stratum by stratum: every pixel the body's outline can reach takes its sample.
   std::uint64_t cast = 0;
   std::vector<SamplingMap> maps;
   for (std::size_t s = 0; s < job.grid.strata.size(); ++s) {
@@ -396,36 +557,28 @@ std::uint64_t exposeRows(const ExposeJob& job, int row0, int row1, Exposure& out
     if (!stratum.counts) continue;
     const Knot& a = job.grid.knots[s];
     const Knot& b = job.grid.knots[s + 1];
-    const double radius = a.radiusPx + stratum.stepPx + capsuleMarginPx;
+    const OutlineBound bound(a.outline, stratum.stepPx + outlineMarginPx);
     maps.clear();
     for (int y = row0; y < row1; ++y) {
       int first = 0, last = width - 1;
-      if (a.bounded && !capsuleColumns(a, radius, y + 0.5, width, first, last)) continue;
+      if (a.outline.bounded && !outlineColumns(bound, y + 0.5, width, first, last)) continue;
       // The phases' maps, made when the body first reaches these rows.
       if (maps.empty())
         for (int p = 0; p < phases; ++p) maps.emplace_back(lerpMap(a.map, b.map, phaseOffset(p)), job.camera.orthographic);
       cast += std::uint64_t(last - first + 1);
-      for (int x = first; x <= last; ++x) {
-        const std::size_t i = std::size_t(y - row0) * std::size_t(width) + std::size_t(x);
-        Rgb c;
-        if (!bodyRadiance(job.scene, job.shape, job.paint, maps[std::size_t(phase[i])], x + 0.5, y + 0.5, table[i], c))
-          continue;
-        sum[3 * i] += stratum.light * c.r;
-        sum[3 * i + 1] += stratum.light * c.g;
-        sum[3 * i + 2] += stratum.light * c.b;
-        cover[i] += stratum.light;
-      }
+      sampleRow(job, maps, y, first, last, stratum.light, film);
     }
   }
   // Strata where the body was absent show the background: film = A + bg (M - B).
   for (int y = row0; y < row1; ++y)
     for (int x = 0; x < width; ++x) {
       const std::size_t i = std::size_t(y - row0) * std::size_t(width) + std::size_t(x);
-      const double absent = job.lightTotal - cover[i];
+      const double absent = job.lightTotal - film.cover[i];
+      const double* sum = film.sum.data() + 3 * i;
       for (int plain = 0; plain < 2; ++plain) {
         const Rgb bg = backgroundAt(job.scene, job.camera, x, y, plain == 0);
-        const Rgb pixel{(sum[3 * i] + bg.r * absent) / job.weightTotal, (sum[3 * i + 1] + bg.g * absent) / job.weightTotal,
-                        (sum[3 * i + 2] + bg.b * absent) / job.weightTotal};
+        const Rgb pixel{(sum[0] + bg.r * absent) / job.weightTotal, (sum[1] + bg.g * absent) / job.weightTotal,
+                        (sum[2] + bg.b * absent) / job.weightTotal};
         (plain == 0 ? out.image : out.plain).set(x, y, pixel);
       }
     }
@@ -481,14 +634,16 @@ Image renderInstant(const SceneLook& scene, const Camera& camera, const Pose& po
   Image img(camera.width, camera.height);
   const PaintLookup paint(scene.body, scene.paint);
   const BodyShape shape(scene.body);
-  const SamplingMap map(rayMapOf(camera, bodyFrameOf(pose, scene.lights.keyDirection)), camera.orthographic);
-  for (int y = 0; y < camera.height; ++y)
+  SamplingMap map(rayMapOf(camera, bodyFrameOf(pose, scene.lights.keyDirection)), camera.orthographic);
+  for (int y = 0; y < camera.height; ++y) {
+    map.setRow(y + 0.5);
     for (int x = 0; x < camera.width; ++x) {
       Rgb c;
-      if (!bodyRadiance(scene, shape, paint, map, x + 0.5, y + 0.5, tableDistance(camera.rayAt(x + 0.5, y + 0.5)), c))
+      if (!bodyRadiance(scene, shape, paint, map, x + 0.5, tableDistance(camera.rayAt(x + 0.5, y + 0.5)), c))
         c = backgroundAt(scene, camera, x, y);
       img.set(x, y, c);
     }
+  }
   return img;
 }
 

@@ -40,7 +40,7 @@ struct ExposureStats {
   double fastestImageSpeed = 0;     ///< px/s, the fastest surface point's image speed
   double interpolationErrorPx = 0;  ///< largest gap between interpolated and true poses at mid-stratum, px
   std::uint64_t pixelSamples = 0;   ///< pixels x weighted strata: the samples the exposure stands for
-  std::uint64_t bodySamples = 0;    ///< samples that met the body's bounding capsule and were ray cast
+  std::uint64_t bodySamples = 0;    ///< samples within the body's widened outline, ray cast
   double weightTotal = 0;           ///< sum of the time weights (1 s^-1 x s for the eye, the exposure time for a camera)
 };
 

@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <utility>
+#include <vector>
 
 #include "core/constants.hpp"
 
@@ -31,54 +33,12 @@ DirectionTerms::DirectionTerms(const Vec3& d)
     : across(d.x() * d.x() + d.y() * d.y()), invAcross(across > 0 ? 1.0 / across : 0.0),
       invZ(d.z() != 0.0 ? 1.0 / d.z() : 0.0) {}
 
-namespace {
+namespace scene_detail {
 
-// A hit at ray parameter t on a cylindrical wall of `radius` (1/radius
-// given), its normal pointing away from the axis (`outward` +1) or towards it (-1).
-bool wallHit(const Vec3& o, const Vec3& d, double t, SurfacePart part, double radius, double invRadius, double outward,
-             BodyHit& hit) {
-  hit.t = t;
-  hit.part = part;
-  hit.point = o + t * d;
-  hit.radius = radius;
-  hit.dirX = hit.point.x() * invRadius;
-  hit.dirY = hit.point.y() * invRadius;
-  hit.normal = Vec3(outward * hit.dirX, outward * hit.dirY, 0);
-  return true;
-}
-
-}  // namespace
-
-bool intersectBody(const BodyShape& s, const Vec3& o, const Vec3& d, const DirectionTerms& terms, BodyHit& hit) {
-  constexpr double inf = std::numeric_limits<double>::infinity();
-  // The infinite outer cylinder along the ray (tested first: most misses end here).
-  const double a = terms.across, invA = terms.invAcross;
-  const double b = o.x() * d.x() + o.y() * d.y();
-  const double rho2 = o.x() * o.x() + o.y() * o.y();
-  double cylIn = -inf, cylOut = inf;
-  if (a > 0.0) {
-    const double disc = b * b - a * (rho2 - s.outer2);
-    if (disc < 0) return false;
-    const double root = std::sqrt(disc);
-    cylIn = (-b - root) * invA;
-    cylOut = (-b + root) * invA;
-  } else if (rho2 > s.outer2) {
-    return false;
-  }
-  // The slab |z| <= L/2 along the ray.
-  double slabIn = -inf, slabOut = inf;
-  if (d.z() != 0.0) {
-    const double ta = (s.half - o.z()) * terms.invZ, tb = (-s.half - o.z()) * terms.invZ;
-    slabIn = std::min(ta, tb);
-    slabOut = std::max(ta, tb);
-  } else if (std::abs(o.z()) > s.half) {
-    return false;
-  }
-  const double enter = std::max(cylIn, slabIn), leave = std::min(cylOut, slabOut);
-  if (!(enter < leave) || enter <= 0) return false;
-  // Entering through the outer surface.
-  if (cylIn >= slabIn) return wallHit(o, d, cylIn, SurfacePart::Outer, s.outer, s.invOuter, 1.0, hit);
-  // Entering through an end plane: the face annulus, or the bore's opening.
+bool endPlaneHit(const BodyShape& s, const Vec3& o, const Vec3& d, const DirectionTerms& terms,
+                 const BoundsCrossing& c, BodyHit& hit) {
+  const double a = terms.across, invA = terms.invAcross, b = c.b, rho2 = c.rho2, slabIn = c.slabIn;
+  // The face annulus, or the bore's opening.
   const bool throughA = d.z() < 0;
   Vec3 p = o + slabIn * d;
   p.z() = throughA ? s.half : -s.half;
@@ -98,9 +58,11 @@ bool intersectBody(const BodyShape& s, const Vec3& o, const Vec3& d, const Direc
   if (!(a > 0.0)) return false;
   const double discInner = std::max(0.0, b * b - a * (rho2 - s.inner2));
   const double wall = (-b + std::sqrt(discInner)) * invA;
-  if (!(wall < slabOut)) return false;
+  if (!(wall < c.slabOut)) return false;
   return wallHit(o, d, wall, SurfacePart::Bore, s.inner, s.invInner, -1.0, hit);
 }
+
+}  // namespace scene_detail
 
 bool intersectBody(const Cylinder& c, const Vec3& o, const Vec3& d, BodyHit& hit) {
   return intersectBody(BodyShape(c), o, d, DirectionTerms(d), hit);
@@ -121,71 +83,48 @@ PaintLookup::PaintLookup(const Cylinder& body, const Paint& paint) : body_(body)
     c.centreX = std::cos(m.angle);
     c.centreY = std::sin(m.angle);
     c.minCos = m.arcWidth / 2 >= k::pi ? -2.0 : std::cos(m.arcWidth / 2);
-    marks_.push_back(c);
-  }
-}
-
-namespace {
-
-// True when direction (x, y) lies in the counter-clockwise arc of `span`
-// radians starting at direction (fx, fy) and ending at (tx, ty), by signs of
-// cross products instead of angles.
-bool inArc(double x, double y, double fx, double fy, double tx, double ty, double span) {
-  if (span >= k::twoPi) return true;
-  if (span <= 0.0) return x == fx && y == fy;
-  if (span < k::pi) return fx * y - fy * x >= 0 && x * ty - y * tx >= 0;
-  // Outside the open complementary arc from `to` to `from` (no longer than pi).
-  return !(tx * y - ty * x > 0 && x * fy - y * fx > 0);
-}
-
-bool onFace(SurfacePart part, End e) {
-  return (part == SurfacePart::FaceA && e == End::A) || (part == SurfacePart::FaceB && e == End::B);
-}
-
-}  // namespace
-
-bool PaintLookup::covers(const Compiled& c, const BodyHit& hit) const {
-  const Marking& m = c.marking;
-  const double fromEdge = body_.length / 2 - endSign(m.end) * hit.point.z();
-  const double cx = hit.dirX, cy = hit.dirY;
-  switch (m.kind) {
-    case MarkingKind::Band:
-      if (onFace(hit.part, m.end)) return true;
-      return hit.part == SurfacePart::Outer && fromEdge <= m.width;
-    case MarkingKind::RimPatch:
-      // The cheap test of the extent first, then the arc.
-      if (onFace(hit.part, m.end)) {
-        if (!(body_.outerRadius - hit.radius <= m.width)) return false;
-      } else if (!(hit.part == SurfacePart::Outer && fromEdge <= m.width)) {
-        return false;
+    // Every kind can cover the outer surface; bands and rim patches also their end's face; none the bore.
+    const bool endKind = m.kind == MarkingKind::Band || m.kind == MarkingKind::RimPatch;
+    const SurfacePart face = m.end == End::A ? SurfacePart::FaceA : SurfacePart::FaceB;
+    for (SurfacePart part : {SurfacePart::Outer, face})
+      if (part == SurfacePart::Outer || endKind) {
+        std::vector<Compiled>& list = byPart_[int(part)];
+        list.insert(list.begin(), c);
       }
-      return inArc(cx, cy, c.fromX, c.fromY, c.toX, c.toY, c.span);
-    case MarkingKind::Stripe:
-      return hit.part == SurfacePart::Outer && cx * c.centreX + cy * c.centreY >= c.minCos;
-    case MarkingKind::Dot: {
-      if (hit.part != SurfacePart::Outer) return false;
-      const double dz = hit.point.z() - m.axial;
-      if (std::abs(dz) > m.radius) return false;
-      const double arc = std::atan2(c.centreX * cy - c.centreY * cx, c.centreX * cx + c.centreY * cy) * body_.outerRadius;
-      return arc * arc + dz * dz <= m.radius * m.radius;
+  }
+  findPlainStretch();
+}
+
+void PaintLookup::findPlainStretch() {
+  // Each marking's reach along the outer surface (z from, to), widened by a
+  // margin far above rounding and far below a pixel; a stripe reaches all of it.
+  const double half = body_.length / 2, margin = 1e-9 * (half + body_.outerRadius);
+  std::vector<std::pair<double, double>> reach;
+  for (const Compiled& c : byPart_[int(SurfacePart::Outer)]) {
+    const Marking& m = c.marking;
+    switch (m.kind) {
+      case MarkingKind::Band:
+      case MarkingKind::RimPatch:
+        reach.push_back(m.end == End::A ? std::pair{half - m.width, half} : std::pair{-half, m.width - half});
+        break;
+      case MarkingKind::Stripe: reach.push_back({-half, half}); break;
+      case MarkingKind::Dot: reach.push_back({m.axial - m.radius, m.axial + m.radius}); break;
     }
   }
-  return false;
-}
-
-Rgb PaintLookup::albedoAt(const BodyHit& hit) const {
-  Rgb colour = hit.part == SurfacePart::Bore ? paint_.bore : paint_.body;
-  for (const Compiled& c : marks_)
-    if (covers(c, hit)) colour = c.marking.colour;
-  return colour;
+  // The longest gap between the reaches within the body's length.
+  std::sort(reach.begin(), reach.end());
+  double covered = -half;
+  plain_ = {};
+  reach.push_back({half, half});
+  for (const auto& [from, to] : reach) {
+    if (from - covered > plain_.hi - plain_.lo) plain_ = {covered, from};
+    covered = std::max(covered, to);
+  }
+  plain_.lo += margin;
+  plain_.hi -= margin;
 }
 
 // ---- shading and background ----------------------------------------------
-
-Rgb shade(const SceneLights& lights, const Rgb& albedo, double cosKey) {
-  const double light = lights.ambient + lights.key * std::max(0.0, cosKey);
-  return {albedo.r * light, albedo.g * light, albedo.b * light};
-}
 
 namespace {
 

@@ -65,11 +65,32 @@ struct DirectionTerms {
   explicit DirectionTerms(const Vec3& d);
 };
 
+/// Where a body-frame ray crosses the solid's bounds: the infinite outer
+/// cylinder between ray parameters cylIn and cylOut, the slab |z| <= L/2
+/// between slabIn and slabOut; b = o.d and rho2 = |o|^2 across the axis.
+struct BoundsCrossing {
+  double cylIn = 0, cylOut = 0, slabIn = 0, slabOut = 0;
+  double b = 0, rho2 = 0;
+  /// True when the ray enters the solid through its outer surface (at cylIn).
+  bool throughOuter() const { return cylIn >= slabIn; }
+};
+
+/// The first stage of intersectBody(), its common part: where the ray
+/// crosses the infinite outer cylinder (b, rho2, cylIn, cylOut); false when
+/// it misses it.
+inline bool crossCylinder(const BodyShape& shape, const Vec3& o, const Vec3& d, const DirectionTerms& terms,
+                          BoundsCrossing& crossing);
+/// The second stage, after crossCylinder(): where the ray crosses the slab
+/// (slabIn, slabOut); false unless the two overlap in front of the origin.
+inline bool crossSlab(const BodyShape& shape, const Vec3& o, const Vec3& d, const DirectionTerms& terms,
+                      BoundsCrossing& crossing);
+
 /// First hit of a body-frame ray (origin o, direction d, t > 0) with the
 /// solid between radii r and R, |z| <= L/2: the outer surface, an end face
 /// (annulus) or, through an end's opening, the bore. False on a miss.
 /// `terms` must be DirectionTerms(d).
-bool intersectBody(const BodyShape& shape, const Vec3& o, const Vec3& d, const DirectionTerms& terms, BodyHit& hit);
+inline bool intersectBody(const BodyShape& shape, const Vec3& o, const Vec3& d, const DirectionTerms& terms,
+                          BodyHit& hit);
 bool intersectBody(const Cylinder& c, const Vec3& o, const Vec3& d, BodyHit& hit);
 
 /// The paint compiled for fast look-up: the same answer as colourAt() (to
@@ -78,7 +99,16 @@ class PaintLookup {
  public:
   PaintLookup(const Cylinder& body, const Paint& paint);
   /// Linear albedo at a body hit.
-  Rgb albedoAt(const BodyHit& hit) const;
+  inline Rgb albedoAt(const BodyHit& hit) const;
+  /// A stretch lo < z < hi (m, along the body axis) of the outer surface
+  /// that no marking reaches: there the albedo is the body colour.
+  struct Stretch {
+    double lo = 0, hi = 0;
+    bool contains(double z) const { return z > lo && z < hi; }
+  };
+  const Stretch& plainStretch() const { return plain_; }
+  /// Linear albedo of the unpainted body.
+  const Rgb& bodyColour() const { return paint_.body; }
 
  private:
   struct Compiled {
@@ -87,15 +117,23 @@ class PaintLookup {
     double span = 0;                                // arc length in radians, 2 pi for a whole turn
     double centreX = 1, centreY = 0, minCos = 1;    // stripe and dot centre direction; stripe half-width cosine
   };
-  bool covers(const Compiled& m, const BodyHit& hit) const;
+  inline bool covers(const Compiled& m, const BodyHit& hit) const;
+  // Sets plain_ from the outer surface's markings.
+  void findPlainStretch();
   Cylinder body_;
   Paint paint_;
-  std::vector<Compiled> marks_;
+  // Per surface part (indexed by SurfacePart), the markings that can cover
+  // it, latest first: the first that covers a point is the one on top.
+  std::vector<Compiled> byPart_[4];
+  // The longest stretch of the outer surface no marking reaches (empty when
+  // lo >= hi): most hits of a tube marked at its ends land there and need
+  // no marking test.
+  Stretch plain_;
 };
 
 /// Radiance (unflickered) of a surface of `albedo` whose normal makes
 /// cos = `cosKey` with the key light's direction.
-Rgb shade(const SceneLights& lights, const Rgb& albedo, double cosKey);
+inline Rgb shade(const SceneLights& lights, const Rgb& albedo, double cosKey);
 
 /// Radiance (unflickered) of what a pixel sees when the body is absent: the
 /// table (grid lines filtered over the pixel's footprint) or the room.
@@ -103,3 +141,7 @@ Rgb shade(const SceneLights& lights, const Rgb& albedo, double cosKey);
 Rgb backgroundAt(const SceneLook& scene, const Camera& camera, int px, int py, bool withGrid = true);
 
 }  // namespace dm
+
+// The per-sample functions above, inline: the exposure calls them for every
+// sample that meets the body.
+#include "render/scene_inline.hpp"

@@ -85,6 +85,31 @@ TEST_CASE("a body at rest exposes to its single-frame render", "[expose]") {
     }
 }
 
+TEST_CASE("the outline an exposure samples within holds the whole body, at any shape and tilt", "[expose]") {
+  // renderInstant() casts every pixel; a still exposure casts only within
+  // the body's outline (end ellipses and the rectangle between, widened by
+  // a pixel). Equal images mean no pixel the body covers was left out.
+  const Cylinder shapes[] = {tube, {0.08, 0.005, 0, 0.01}, {0.004, 0.02, 0, 0.01}, {0.01, 0.02, 0.015, 0.01}};
+  const double tilts[] = {0.0, 0.03, 0.5, 1.2, k::pi / 2};
+  const Camera top = topCamera(Vec3(0.003, -0.002, 0), 0.1, 80);
+  const Camera eye = visitorCamera(Vec3::Zero(), 0.25, 0.3, 2.0, 0.4, 80);
+  SceneLook look = markedScene();
+  for (const Cylinder& c : shapes)
+    for (double tilt : tilts) {
+      look.body = c;
+      Pose still;
+      still.worldFromBody = Quat(Eigen::AngleAxisd(0.7, Vec3::UnitZ()) * Eigen::AngleAxisd(k::pi / 2 - tilt, Vec3::UnitY()));
+      still.position = Vec3(0.004, 0.001, c.outerRadius + c.length / 2);
+      const PoseSource rest = [still](double) { return still; };
+      for (const Camera& cam : {top, eye}) {
+        const Exposure e = expose(look, cam, rest, options(ExposureMode::Camera, 0.0, 0.1));
+        // Every sample is the instant's radiance; the ratio of the sums
+        // differs from it by rounding only.
+        CHECK(largestDifference(e.image, renderInstant(look, cam, still)) < 1e-6);
+      }
+    }
+}
+
 TEST_CASE("a uniform body spinning steadily conserves the swept annulus' mean radiance", "[expose]") {
   Paint uniform;
   uniform.body = uniform.bore = {0.9, 0.9, 0.9};

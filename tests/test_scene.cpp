@@ -104,6 +104,63 @@ TEST_CASE("the compiled paint gives colourAt's answer everywhere", "[scene]") {
   CHECK(checked == 20000);
 }
 
+TEST_CASE("the outer surface's plain stretch holds no marking, and the paint agrees with colourAt at its edges", "[scene]") {
+  Paint paint;
+  paint.body = {0.9, 0.9, 0.9};
+  Marking patch;  // end A's rim, 4 mm
+  patch.kind = MarkingKind::RimPatch;
+  patch.end = End::A;
+  patch.width = 0.004;
+  patch.fromAngle = 0.2;
+  patch.toAngle = 0.9;
+  patch.colour = {1, 0, 0};
+  Marking band;  // end B, 2 mm
+  band.kind = MarkingKind::Band;
+  band.end = End::B;
+  band.width = 0.002;
+  band.colour = {0, 1, 0};
+  Marking dot;  // 3 mm round at z = +10 mm
+  dot.kind = MarkingKind::Dot;
+  dot.angle = 1.0;
+  dot.axial = 0.01;
+  dot.radius = 0.003;
+  dot.colour = {0, 0, 1};
+  paint.markings = {patch, band, dot};
+  const PaintLookup lookup(tube, paint);
+  // The longest unmarked stretch runs from end B's band (z = -30 mm) to the
+  // dot (z = +7 mm), less a margin of 1e-9 of the body's half size.
+  const PaintLookup::Stretch plain = lookup.plainStretch();
+  CHECK(plain.lo == Approx(-0.030).margin(1e-9));
+  CHECK(plain.hi == Approx(0.007).margin(1e-9));
+  CHECK(plain.lo > -0.030);
+  CHECK(plain.hi < 0.007);
+  // Random outer points, half of them within 1 um of a marking's edge: the
+  // compiled paint answers as colourAt, and inside the stretch the colour is the body's.
+  std::mt19937_64 rng(11);
+  std::uniform_real_distribution<double> u(0, 1);
+  const double edges[] = {-0.030, 0.007, 0.013, 0.028};
+  for (int i = 0; i < 20000; ++i) {
+    const double angle = k::twoPi * u(rng) - k::pi;
+    const double z = i % 2 ? (u(rng) - 0.5) * tube.length : edges[i / 2 % 4] + (u(rng) - 0.5) * 2e-6;
+    BodyHit hit;
+    hit.part = SurfacePart::Outer;
+    hit.radius = tube.outerRadius;
+    hit.point = Vec3(tube.outerRadius * std::cos(angle), tube.outerRadius * std::sin(angle), z);
+    hit.dirX = std::cos(angle);
+    hit.dirY = std::sin(angle);
+    const Rgb colour = colourAt(tube, paint, SurfacePoint{SurfacePart::Outer, z, angle, tube.outerRadius});
+    CHECK(lookup.albedoAt(hit) == colour);
+    if (plain.contains(z)) CHECK(colour == paint.body);
+  }
+  // A stripe reaches the whole length: no plain stretch.
+  Marking stripe;
+  stripe.kind = MarkingKind::Stripe;
+  paint.markings.push_back(stripe);
+  const PaintLookup striped(tube, paint);
+  CHECK_FALSE(striped.plainStretch().contains(0.0));
+  CHECK(striped.plainStretch().lo >= striped.plainStretch().hi);
+}
+
 TEST_CASE("the grid is box-filtered over each pixel's footprint", "[scene]") {
   SceneLook look;
   look.tableColour = {0.5, 0.5, 0.5};
