@@ -13,6 +13,11 @@ Scenario loadScenarioWithOverrides(const std::string& path, const std::vector<st
   return scenarioFromJson(doc);
 }
 
+void addThreadsOption(CLI::App* sub, int& threads) {
+  sub->add_option("--threads", threads, "worker threads; 0 = one per hardware thread (the output does not change)")
+      ->check(CLI::Range(0, 1024));
+}
+
 std::pair<int, int> parseSize(const std::string& flag, const std::string& text, std::pair<int, int> min,
                               std::pair<int, int> max) {
   std::smatch m;

@@ -80,6 +80,11 @@ void addSnapshotCommand(CLI::App& app, Commands& commands, SnapshotRunner runner
 std::pair<int, int> parseSize(const std::string& flag, const std::string& text, std::pair<int, int> min,
                               std::pair<int, int> max);
 
+/// Adds the `--threads K` option (0 to 1024; 0 = one per hardware thread)
+/// shared by every subcommand that works in parallel: its output never
+/// depends on K.
+void addThreadsOption(CLI::App* sub, int& threads);
+
 /// Reads a scenario file, applies `--set key.path=value` overrides, parses
 /// and validates it (throws ScenarioError).
 Scenario loadScenarioWithOverrides(const std::string& path, const std::vector<std::string>& sets);

@@ -83,8 +83,7 @@ void addCalibrateCommand(CLI::App& app, Commands& commands) {
   sub->add_option("--spots", args->spots, "number of spots seen during the show (optional)");
   sub->add_option("--timing-s", args->target.timing, "uncertainty of each measured time, s (default 0.2)");
   sub->add_option("--launches", args->launches, "launches from launch_spread averaged per trial")->check(CLI::Range(1, 1000));
-  sub->add_option("--threads", args->threads, "worker threads; 0 = one per hardware thread (the output does not change)")
-      ->check(CLI::Range(0, 1024));
+  addThreadsOption(sub, args->threads);
   sub->add_option("--seed", args->seed, "seed of the launch draws (overrides launch.seed)")
       ->check(CLI::Range(std::uint64_t(0), std::uint64_t(9007199254740991ULL)));
   sub->add_option("--set", args->sets, "override a scenario field: key.path=value (repeatable)");

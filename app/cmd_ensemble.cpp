@@ -76,8 +76,7 @@ void addEnsembleCommand(CLI::App& app, Commands& commands) {
   sub->add_option("scenario", args->scenario, "scenario JSON file")->required();
   sub->add_option("--out", args->out, "output folder (new or empty)")->required();
   sub->add_option("--launches", args->launches, "number of launches")->check(CLI::Range(1, 1000000));
-  sub->add_option("--threads", args->threads, "worker threads; 0 = one per hardware thread (the output does not change)")
-      ->check(CLI::Range(0, 1024));
+  addThreadsOption(sub, args->threads);
   sub->add_option("--seed", args->seed, "seed of the launch draws (overrides launch.seed)")
       ->check(CLI::Range(std::uint64_t(0), std::uint64_t(9007199254740991ULL)));
   sub->add_option("--set", args->sets, "override a scenario field: key.path=value (repeatable)");

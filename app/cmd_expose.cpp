@@ -116,8 +116,7 @@ void addExposeCommand(CLI::App& app, Commands& commands) {
   sub->add_option("--steady-precession-rev-s", args->steadyPrecession,
                   "show the exact steady spin at this precession instead of a run (observer.steady_precession_rev_s)");
   sub->add_option("--set", args->sets, "override a scenario field: key.path=value (repeatable)");
-  sub->add_option("--threads", args->threads, "worker threads, 0 for one per core (the output does not depend on it)")
-      ->check(CLI::Range(0, 256));
+  addThreadsOption(sub, args->threads);
   sub->add_flag("--pfm", args->pfm, "also write the linear float image exposure.pfm");
   sub->add_flag("--force", args->force, "write into a folder that already holds files");
   commands.add(sub, [args] { return runExpose(*args); });

@@ -47,8 +47,7 @@ void addReviewCommand(CLI::App& app, Commands& commands) {
   sub->add_option("--out", args->out, "output folder (new or empty)")->required();
   sub->add_option("--set", args->sets, "override a field of every variant: key.path=value (repeatable)");
   sub->add_option("--launches", args->options.launches, "visitor launches per variant")->check(CLI::Range(1, 100000));
-  sub->add_option("--threads", args->options.threads, "worker threads; 0 = one per hardware thread (the output does not change)")
-      ->check(CLI::Range(0, 1024));
+  addThreadsOption(sub, args->options.threads);
   sub->add_option("--seed", args->options.seed, "seed of the launch draws (overrides launch.seed)")
       ->check(CLI::Range(std::uint64_t(0), std::uint64_t(9007199254740991ULL)));
   sub->add_option("--duration-s", args->duration, "simulated time of every run in seconds (overrides run.duration_s)");
