@@ -60,5 +60,5 @@ bad view "observer.view" --view sideways
 bad eye "observer.eye_height_mm" --view visitor --eye-height-mm 9000
 bad window "observer.exposure_s" --mode eye --exposure-s 0.05
 bad slow "observer.steady_precession_rev_s" --steady-precession-rev-s 1
-bad threads "threads" --threads 999
+bad threads "threads" --threads 2000
 echo "e2e_expose: ok"
