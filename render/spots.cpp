@@ -220,6 +220,31 @@ std::vector<bool> seenBins(const Camera& camera, const Ring& ring, int n, double
   return seen;
 }
 
+// Runs of one sign with a gap of at most `gapBins` between them joined:
+// noise that dips a spot's flank under the threshold for a bin or two must
+// not split it in two. (Distinct spots lie tens of bins apart.)
+constexpr int gapBins = 2 * smoothing + 1;
+
+std::vector<std::pair<int, int>> joinNearRuns(const std::vector<std::pair<int, int>>& runs,
+                                              const std::vector<double>& v, double reference, int n) {
+  const auto signOf = [&](int i) { return v[std::size_t(((i % n) + n) % n)] > reference ? 1 : -1; };
+  std::vector<std::pair<int, int>> joined;
+  for (const auto& run : runs) {
+    if (!joined.empty() && run.first - joined.back().second - 1 <= gapBins &&
+        signOf(run.first) == signOf(joined.back().first))
+      joined.back().second = run.second;
+    else
+      joined.push_back(run);
+  }
+  // The last run may reach round to the first.
+  if (joined.size() > 1 && joined.front().first + n - joined.back().second - 1 <= gapBins &&
+      signOf(joined.front().first) == signOf(joined.back().first)) {
+    joined.back().second = joined.front().second + n;
+    joined.erase(joined.begin());
+  }
+  return joined;
+}
+
 }  // namespace
 
 SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, double threshold, double tableRadius) {
@@ -276,7 +301,8 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
   // Spots: runs of at least two bins beyond the threshold, each placed
   // across the ring against the local background (computed once, when
   // there is a spot to place; a quarter of the ring's bins is enough for a median).
-  const std::vector<std::pair<int, int>> runs = runsBeyond(smooth, report.medianLuminance, threshold);
+  const std::vector<std::pair<int, int>> runs =
+      joinNearRuns(runsBeyond(smooth, report.medianLuminance, threshold), smooth, report.medianLuminance, n);
   std::vector<double> radii, medians;
   if (!runs.empty()) {
     radii = profileRadii(ring, step);

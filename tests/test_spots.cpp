@@ -109,6 +109,26 @@ TEST_CASE("a ring of painted dots is found with its azimuths and contrast", "[sp
   CHECK(findSpots(Image(200, 200, {0.5, 0.5, 0.5}), cam, ring, 0.02).spots.empty());
 }
 
+TEST_CASE("a spot whose middle dips under the threshold for a bin is still one spot", "[spots]") {
+  const Camera cam = topCamera(Vec3::Zero(), 0.1, 200);
+  Image img(200, 200, {0.5, 0.5, 0.5});
+  const Ring ring{Vec3(0, 0, 0.02), 0.03};
+  // A dark 12-degree arc band across the ring at 100 to 112 degrees, with a
+  // thin gap of table colour at 106 degrees, 1 degree wide: narrower than the
+  // five-bin smoothing, so only its flanks' sampling noise can split it.
+  for (int y = 0; y < 200; ++y)
+    for (int x = 0; x < 200; ++x) {
+      const double px = (x + 0.5 - 100) * 5e-4, py = (100 - y - 0.5) * 5e-4;
+      const double r = std::hypot(px, py), a = std::atan2(py, px) / k::degree;
+      if (std::abs(r - 0.03) < 0.002 && a > 100 && a < 112 && std::abs(a - 106) > 0.5) img.set(x, y, {0.49, 0.49, 0.49});
+    }
+  // Threshold just under the band's 2 % so the smoothed gap can fall below it.
+  const SpotReport r = findSpots(img, cam, ring, 0.015);
+  INFO("spots " << r.spots.size());
+  REQUIRE(r.spots.size() == 1);
+  CHECK(r.spots[0].azimuth / k::degree == Approx(106).margin(1.0));
+}
+
 TEST_CASE("the ring of a run is the circle of the raised end's top points", "[spots]") {
   const Cylinder c{0.064, 0.008, 0.007, 0.01};
   SteadyMotion m;
