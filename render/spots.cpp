@@ -83,39 +83,6 @@ Rgb ringColour(const Image& img, const Camera& camera, const Ring& ring, double 
   return n > 0 ? Rgb{sum.r / n, sum.g / n, sum.b / n} : Rgb{};
 }
 
-// The radii a spot's radial profile is read at: within a third of the
-// ring's radius either side, one footprint `step` apart.
-std::vector<double> profileRadii(const Ring& ring, double step) {
-  std::vector<double> radii;
-  const int reach = int(std::ceil(ring.radius / 3 / step));
-  for (int k = -reach; k <= reach; ++k)
-    if (ring.radius + k * step > 0) radii.push_back(ring.radius + k * step);
-  return radii;
-}
-
-// The median luminance of the circle of each radius, in `bins` bins: the
-// local background at that distance from the centre. A spot's place across
-// the ring is judged against it, not against the ring's own median, or the
-// darker table beyond the swept disc would pass for the peak of a dark spot.
-std::vector<double> circleMedians(const Image& img, const Camera& camera, const Ring& ring,
-                                  const std::vector<double>& radii, int bins, double step);
-
-// Where across the ring the contrast at azimuth `phi` against the local
-// background peaks with the spot's sign.
-double peakRadius(const Image& img, const Camera& camera, const Ring& ring, double phi, double width, double sign,
-                  double step, const std::vector<double>& radii, const std::vector<double>& medians) {
-  double best = ring.radius, bestValue = -1e300;
-  for (std::size_t i = 0; i < radii.size(); ++i) {
-    if (!(medians[i] > 0)) continue;
-    const double c = sign * (luminance(ringColour(img, camera, ring, phi, width, radii[i], step)) / medians[i] - 1.0);
-    if (c > bestValue) {
-      bestValue = c;
-      best = radii[i];
-    }
-  }
-  return best;
-}
-
 // Circular moving average over 2 half + 1 values.
 std::vector<double> movingAverage(const std::vector<double>& v, int half) {
   const int n = int(v.size());
@@ -180,6 +147,20 @@ std::vector<std::pair<int, int>> runsBeyond(const std::vector<double>& v, double
   return runs;
 }
 
+// The radii a spot's radial profile is read at: within a third of the
+// ring's radius either side, one footprint `step` apart.
+std::vector<double> profileRadii(const Ring& ring, double step) {
+  std::vector<double> radii;
+  const int reach = int(std::ceil(ring.radius / 3 / step));
+  for (int k = -reach; k <= reach; ++k)
+    if (ring.radius + k * step > 0) radii.push_back(ring.radius + k * step);
+  return radii;
+}
+
+// The median luminance of the circle of each radius, in `bins` bins: the
+// local background at that distance from the centre. A spot's place across
+// the ring is judged against it, not against the ring's own median, or the
+// darker table beyond the swept disc would pass for the peak of a dark spot.
 std::vector<double> circleMedians(const Image& img, const Camera& camera, const Ring& ring,
                                   const std::vector<double>& radii, int bins, double step) {
   std::vector<double> medians;
@@ -192,9 +173,21 @@ std::vector<double> circleMedians(const Image& img, const Camera& camera, const 
   return medians;
 }
 
-}  // namespace
-
-namespace {
+// Where across the ring the contrast at azimuth `phi` against the local
+// background peaks with the spot's sign.
+double peakRadius(const Image& img, const Camera& camera, const Ring& ring, double phi, double width, double sign,
+                  double step, const std::vector<double>& radii, const std::vector<double>& medians) {
+  double best = ring.radius, bestValue = -1e300;
+  for (std::size_t i = 0; i < radii.size(); ++i) {
+    if (!(medians[i] > 0)) continue;
+    const double c = sign * (luminance(ringColour(img, camera, ring, phi, width, radii[i], step)) / medians[i] - 1.0);
+    if (c > bestValue) {
+      bestValue = c;
+      best = radii[i];
+    }
+  }
+  return best;
+}
 
 // Whether the line of sight through the ring's point at azimuth `phi`
 // lands on the table top (within `tableRadius` of the lab origin, less a

@@ -3,6 +3,7 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <functional>
 
 #include "core/colour.hpp"
 #include "core/constants.hpp"
@@ -77,21 +78,31 @@ std::vector<ImageSpot> redSpots(const SpotReport& r) {
   return out;
 }
 
+// A 200 x 200 grey (0.5) image of a 100 mm top view, with the pixels whose
+// centre (x, y in m, lab frame) `inside` accepts set to `grey`.
+Image paintedTopView(const std::function<bool(double, double)>& inside, double grey) {
+  Image img(200, 200, {0.5, 0.5, 0.5});
+  for (int y = 0; y < 200; ++y)
+    for (int x = 0; x < 200; ++x)
+      if (inside((x + 0.5 - 100) * 5e-4, (100 - y - 0.5) * 5e-4)) img.set(x, y, {grey, grey, grey});
+  return img;
+}
+
 }  // namespace
 
 TEST_CASE("a ring of painted dots is found with its azimuths and contrast", "[spots]") {
   const Camera cam = topCamera(Vec3::Zero(), 0.1, 200);
-  Image img(200, 200, {0.5, 0.5, 0.5});
   const Ring ring{Vec3(0, 0, 0.02), 0.03};
   // Five dark dots (40 % darker) of 2 mm radius at 10 + 72 k degrees.
-  for (int y = 0; y < 200; ++y)
-    for (int x = 0; x < 200; ++x) {
-      const double px = (x + 0.5 - 100) * 5e-4, py = (100 - y - 0.5) * 5e-4;
-      for (int k = 0; k < 5; ++k) {
-        const double a = (10 + 72 * k) * k::degree;
-        if (std::hypot(px - 0.03 * std::cos(a), py - 0.03 * std::sin(a)) < 0.002) img.set(x, y, {0.3, 0.3, 0.3});
-      }
-    }
+  const Image img = paintedTopView(
+      [](double px, double py) {
+        for (int k = 0; k < 5; ++k) {
+          const double a = (10 + 72 * k) * k::degree;
+          if (std::hypot(px - 0.03 * std::cos(a), py - 0.03 * std::sin(a)) < 0.002) return true;
+        }
+        return false;
+      },
+      0.3);
   const SpotReport r = findSpots(img, cam, ring, 0.02);
   REQUIRE(r.spots.size() == 5);
   for (int k = 0; k < 5; ++k) {
@@ -111,17 +122,16 @@ TEST_CASE("a ring of painted dots is found with its azimuths and contrast", "[sp
 
 TEST_CASE("a spot whose middle dips under the threshold for a bin is still one spot", "[spots]") {
   const Camera cam = topCamera(Vec3::Zero(), 0.1, 200);
-  Image img(200, 200, {0.5, 0.5, 0.5});
   const Ring ring{Vec3(0, 0, 0.02), 0.03};
   // A dark 12-degree arc band across the ring at 100 to 112 degrees, with a
   // thin gap of table colour at 106 degrees, 1 degree wide: narrower than the
   // five-bin smoothing, so only its flanks' sampling noise can split it.
-  for (int y = 0; y < 200; ++y)
-    for (int x = 0; x < 200; ++x) {
-      const double px = (x + 0.5 - 100) * 5e-4, py = (100 - y - 0.5) * 5e-4;
-      const double r = std::hypot(px, py), a = std::atan2(py, px) / k::degree;
-      if (std::abs(r - 0.03) < 0.002 && a > 100 && a < 112 && std::abs(a - 106) > 0.5) img.set(x, y, {0.49, 0.49, 0.49});
-    }
+  const Image img = paintedTopView(
+      [](double px, double py) {
+        const double r = std::hypot(px, py), a = std::atan2(py, px) / k::degree;
+        return std::abs(r - 0.03) < 0.002 && a > 100 && a < 112 && std::abs(a - 106) > 0.5;
+      },
+      0.49);
   // Threshold just under the band's 2 % so the smoothed gap can fall below it.
   const SpotReport r = findSpots(img, cam, ring, 0.015);
   INFO("spots " << r.spots.size());
