@@ -12,7 +12,7 @@ packages=(
   # render (CPU) and images
   libpng-dev libstb-dev
   # GUI: window, GL loader, UI, maths
-  libglfw3-dev libepoxy-dev libimgui-dev libglm-dev
+  libglfw3-dev libepoxy-dev libimgui-dev libglm-dev libx11-dev libxrandr-dev
   libegl-dev libegl1-mesa-dev libgl1-mesa-dri mesa-utils fonts-dejavu-core
   # tests, benchmarks, headless display, report checks
   catch2 libbenchmark-dev xvfb xauth tidy chromium
