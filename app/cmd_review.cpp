@@ -52,7 +52,8 @@ void addReviewCommand(CLI::App& app, Commands& commands) {
       ->check(CLI::Range(std::uint64_t(0), std::uint64_t(9007199254740991ULL)));
   sub->add_option("--duration-s", args->duration, "simulated time of every run in seconds (overrides run.duration_s)");
   sub->add_option("--image-px", args->options.imageSize, "size of the observer images, px")->check(CLI::Range(16, 4096));
-  sub->add_option("--viewer-image-px", args->options.viewerImageSize, "size of the viewing-check images, px")
+  sub->add_option("--viewer-image-px", args->options.viewerImageSize,
+                  "largest viewing-check image, px (each is sized to resolve the markings, up to this)")
       ->check(CLI::Range(16, 4096));
   sub->add_flag("--quiet", args->quiet, "print nothing but errors");
   sub->add_flag("--force", args->options.force, "write into a folder that already holds files");

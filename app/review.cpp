@@ -141,7 +141,10 @@ json viewingJson(const std::vector<ViewingResult>& list) {
                    {"spots", r.spots},
                    {"contrast", r.contrast},
                    {"threshold", r.threshold},
-                   {"seen", r.seen}});
+                   {"seen", r.seen},
+                   {"image_size_px", r.image.width},
+                   {"footprint_mm", r.footprint * 1e3},
+                   {"resolved", r.resolved}});
   return out;
 }
 

@@ -34,7 +34,9 @@ struct ReviewOptions {
   std::optional<std::uint64_t> seed;       ///< overrides each variant's launch.seed
   std::optional<double> duration;          ///< overrides run.duration of every run, s
   int imageSize = 240;                     ///< observer images (top and visitor views), px, 16 to 4096
-  int viewerImageSize = 160;               ///< viewing-check images, px, 16 to 4096
+  /// Largest viewing-check image, px, 16 to 4096: each is sized to resolve
+  /// the markings (viewingImageSize), up to this.
+  int viewerImageSize = 640;
   bool force = false;                      ///< write into a folder that already holds files
   std::function<void(const std::string&)> progress;  ///< told what is being done, stage by stage
 };

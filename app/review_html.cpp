@@ -323,7 +323,10 @@ std::string viewingSection(const std::vector<VariantReview>& variants) {
   std::string out = "<section id=\"viewing\"><h2>Viewing check</h2><p>Spot contrast from each viewing position "
                     "(eye heights above the floor, from memory: check them for the venue's visitors) against the "
                     "detection threshold, a Weber contrast of about 2 % (Blackwell, JOSA 36, 624, 1946, from "
-                    "memory).</p><div class=\"variants\">";
+                    "memory). The contrast is what the markings make: the spot against the same place with the "
+                    "markings' mean tint, so the edge of the spinning body is not taken for a spot. Each image is "
+                    "sized so a pixel at the ring is no wider than the eye resolves there (one minute of arc) or a "
+                    "tenth of the smallest marking, whichever is wider.</p><div class=\"variants\">";
   for (const VariantReview& v : variants) {
     out += "<div class=\"variant\"><h3>" + escape(v.scenario.name) + "</h3>";
     for (const ViewingResult& r : v.viewing) {
@@ -331,7 +334,10 @@ std::string viewingSection(const std::vector<VariantReview>& variants) {
                                mm(r.eyeAboveTable) + " above the table, " + mm(r.distance) + " away (" +
                                number(r.elevation / k::degree, 3) + " deg); " + std::to_string(r.spots) +
                                " spots, strongest contrast " + number(r.contrast, 3) + " against " +
-                               number(r.threshold, 3);
+                               number(r.threshold, 3) + "; " + number(r.footprint * 1e3, 3) + " mm a pixel" +
+                               (r.resolved ? std::string()
+                                           : std::string(" (coarser than the markings ask: the image size limit was "
+                                                         "reached and the contrast reads low)"));
       out += "<figure>" + (r.image.width > 0 ? image(r.image, v.scenario.name + ": " + r.viewer.name) : "") +
              "<figcaption>" + escape(text) + " " + flag(!r.seen) + "</figcaption></figure>";
     }

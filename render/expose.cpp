@@ -140,11 +140,26 @@ inline void pixelRay(const SamplingMap& sm, double x, Vec3& o, Vec3& d) {
                                 v[11] + x * v[14] + sm.rowDirection[2]);
 }
 
-// Radiance (unflickered) where the ray of image point x on the map's
-// current row meets the body placed by the map; false when it misses the
-// body or meets the table first (at ray parameter `tableT`).
+// What one sample sees of the body (unflickered): its radiance, and the
+// part of it the markings make, the radiance less that of the unpainted
+// body at the same point (Lambert shading is linear in the albedo).
+struct BodySample {
+  Rgb radiance;
+  Rgb markDelta;
+  bool marked = false;  // a marking covers the point (else markDelta is zero)
+};
+
+// The sample of a hit whose albedo is `albedo`, lit at cosKey.
+inline BodySample bodySample(const SceneLights& lights, const Rgb& albedo, const Rgb& unpainted, double cosKey) {
+  const Rgb delta{albedo.r - unpainted.r, albedo.g - unpainted.g, albedo.b - unpainted.b};
+  return {shade(lights, albedo, cosKey), shade(lights, delta, cosKey), delta.r != 0 || delta.g != 0 || delta.b != 0};
+}
+
+// The sample where the ray of image point x on the map's current row meets
+// the body placed by the map; false when it misses the body or meets the
+// table first (at ray parameter `tableT`).
 bool bodyRadiance(const SceneLook& scene, const BodyShape& shape, const PaintLookup& paint, const SamplingMap& sm,
-                  double x, double tableT, Rgb& radiance) {
+                  double x, double tableT, BodySample& sample) {
   Vec3 o, d;
   pixelRay(sm, x, o, d);
   BodyHit hit;
@@ -153,7 +168,7 @@ bool bodyRadiance(const SceneLook& scene, const BodyShape& shape, const PaintLoo
   if (!met || hit.t >= tableT) return false;
   const double* light = sm.map.v + 18;
   const double cosKey = hit.normal.x() * light[0] + hit.normal.y() * light[1] + hit.normal.z() * light[2];
-  radiance = shade(scene.lights, paint.albedoAt(hit), cosKey);
+  sample = bodySample(scene.lights, paint.albedoAt(hit), paint.unpaintedAt(hit), cosKey);
   return true;
 }
 
@@ -454,12 +469,13 @@ struct ExposeJob {
   double lightTotal = 0, weightTotal = 0;
 };
 
-// The film of a block of rows: per pixel the sums of weight x radiance
-// (three per pixel) and of the weight the body covered, the ray parameter
-// of the table, and the sample phase.
+// The film of a block of rows: per pixel the sums of weight x radiance and
+// of weight x the markings' part of it (three each per pixel) and of the
+// weight the body covered, the ray parameter of the table, and the sample
+// phase.
 struct BlockFilm {
   int row0 = 0, width = 0;
-  std::vector<double> sum, cover, table;
+  std::vector<double> sum, markSum, cover, table;
   std::vector<int> phase;
   BlockFilm(const ExposeJob& job, int firstRow, int rowEnd);
 };
@@ -467,6 +483,7 @@ struct BlockFilm {
 BlockFilm::BlockFilm(const ExposeJob& job, int firstRow, int rowEnd) : row0(firstRow), width(job.camera.width) {
   const std::size_t n = std::size_t(rowEnd - row0) * std::size_t(width);
   sum.assign(3 * n, 0.0);
+  markSum.assign(3 * n, 0.0);
   cover.assign(n, 0.0);
   table.resize(n);
   phase.resize(n);
@@ -488,13 +505,12 @@ struct PlainOuterLook {
   Rgb body;
 };
 
-// Radiance (unflickered) of the sample of image point x on the map's
-// current row, as bodyRadiance() gives it, with the outer surface worked
-// out in place and the commonest case, where no marking reaches, in plain
-// numbers.
+// The sample of image point x on the map's current row, as bodyRadiance()
+// gives it, with the outer surface worked out in place and the commonest
+// case, where no marking reaches, in plain numbers.
 [[gnu::always_inline]] inline bool sampleRadiance(const ExposeJob& job, const PlainOuterLook& look,
-                                                  const SamplingMap& sm, double x, double tableT, Rgb& radiance) {
-  if (!sm.sharedDirection) return bodyRadiance(job.scene, job.shape, job.paint, sm, x, tableT, radiance);
+                                                  const SamplingMap& sm, double x, double tableT, BodySample& sample) {
+  if (!sm.sharedDirection) return bodyRadiance(job.scene, job.shape, job.paint, sm, x, tableT, sample);
   const Vec3 o = sm.originAt(x);
   const Vec3& d = sm.direction;
   const double* light = sm.map.v + 18;
@@ -508,7 +524,7 @@ struct PlainOuterLook {
   // many orders above rounding inside the ends: the slab test would pass,
   // with enter = cylIn and leave = min(cylOut, slabOut) = cylOut, and is skipped.
   if (look.plain.contains(z) && t > 0 && t < c.cylOut && t < tableT) {
-    radiance = shade(look.lights, look.body, cosKey);
+    sample = {shade(look.lights, look.body, cosKey), Rgb{0, 0, 0}, false};
     return true;
   }
   if (!crossSlab(look.shape, o, d, sm.terms, c)) return false;
@@ -516,11 +532,11 @@ struct PlainOuterLook {
     if (t >= tableT) return false;
     BodyHit hit;
     scene_detail::wallHit(o, d, t, SurfacePart::Outer, look.shape.outer, look.shape.invOuter, 1.0, hit);
-    radiance = shade(look.lights, job.paint.albedoAt(hit), cosKey);
+    sample = bodySample(look.lights, job.paint.albedoAt(hit), look.body, cosKey);
     return true;
   }
   // Through an end plane: in full (recomputing keeps this path's values out of memory).
-  return bodyRadiance(job.scene, job.shape, job.paint, sm, x, tableT, radiance);
+  return bodyRadiance(job.scene, job.shape, job.paint, sm, x, tableT, sample);
 }
 
 // Samples columns [first, last] of row y in one stratum of weight `light`
@@ -534,14 +550,19 @@ void sampleRow(const ExposeJob& job, std::vector<SamplingMap>& maps, int y, int 
   const int* phase = film.phase.data() + rowStart;
   const double* table = film.table.data() + rowStart;
   double* sum = film.sum.data() + 3 * rowStart;
+  double* markSum = film.markSum.data() + 3 * rowStart;
   double* cover = film.cover.data() + rowStart;
   for (int x = first; x <= last; ++x) {
-    Rgb c;
+    BodySample c;
     if (!sampleRadiance(job, look, phaseMaps[phase[x]], x + 0.5, table[x], c)) continue;
-    sum[3 * x] += light * c.r;
-    sum[3 * x + 1] += light * c.g;
-    sum[3 * x + 2] += light * c.b;
+    sum[3 * x] += light * c.radiance.r;
+    sum[3 * x + 1] += light * c.radiance.g;
+    sum[3 * x + 2] += light * c.radiance.b;
     cover[x] += light;
+    if (!c.marked) continue;
+    markSum[3 * x] += light * c.markDelta.r;
+    markSum[3 * x + 1] += light * c.markDelta.g;
+    markSum[3 * x + 2] += light * c.markDelta.b;
   }
 }
 
@@ -570,17 +591,22 @@ std::uint64_t exposeRows(const ExposeJob& job, int row0, int row1, Exposure& out
     }
   }
   // Strata where the body was absent show the background: film = A + bg (M - B).
+  // The unpainted exposure is the plain one less the markings' part.
   for (int y = row0; y < row1; ++y)
     for (int x = 0; x < width; ++x) {
       const std::size_t i = std::size_t(y - row0) * std::size_t(width) + std::size_t(x);
       const double absent = job.lightTotal - film.cover[i];
       const double* sum = film.sum.data() + 3 * i;
-      for (int plain = 0; plain < 2; ++plain) {
-        const Rgb bg = backgroundAt(job.scene, job.camera, x, y, plain == 0);
-        const Rgb pixel{(sum[0] + bg.r * absent) / job.weightTotal, (sum[1] + bg.g * absent) / job.weightTotal,
-                        (sum[2] + bg.b * absent) / job.weightTotal};
-        (plain == 0 ? out.image : out.plain).set(x, y, pixel);
-      }
+      const double* mark = film.markSum.data() + 3 * i;
+      const auto pixel = [&](const Rgb& bg, double keepMarks) {
+        return Rgb{(sum[0] - (1 - keepMarks) * mark[0] + bg.r * absent) / job.weightTotal,
+                   (sum[1] - (1 - keepMarks) * mark[1] + bg.g * absent) / job.weightTotal,
+                   (sum[2] - (1 - keepMarks) * mark[2] + bg.b * absent) / job.weightTotal};
+      };
+      const Rgb plainTable = backgroundAt(job.scene, job.camera, x, y, false);
+      out.image.set(x, y, pixel(backgroundAt(job.scene, job.camera, x, y, true), 1));
+      out.plain.set(x, y, pixel(plainTable, 1));
+      out.unpainted.set(x, y, pixel(plainTable, 0));
     }
   return cast;
 }
@@ -613,6 +639,7 @@ Exposure expose(const SceneLook& scene, const Camera& camera, const PoseSource& 
   Exposure out;
   out.image = Image(camera.width, camera.height);
   out.plain = Image(camera.width, camera.height);
+  out.unpainted = Image(camera.width, camera.height);
   const TimeGrid grid = buildTimeGrid(scene, camera, poses, options, out.stats);
   const PaintLookup paint(scene.body, scene.paint);
   const BodyShape shape(scene.body);
@@ -638,10 +665,10 @@ Image renderInstant(const SceneLook& scene, const Camera& camera, const Pose& po
   for (int y = 0; y < camera.height; ++y) {
     map.setRow(y + 0.5);
     for (int x = 0; x < camera.width; ++x) {
-      Rgb c;
+      BodySample c;
       if (!bodyRadiance(scene, shape, paint, map, x + 0.5, tableDistance(camera.rayAt(x + 0.5, y + 0.5)), c))
-        c = backgroundAt(scene, camera, x, y);
-      img.set(x, y, c);
+        c.radiance = backgroundAt(scene, camera, x, y);
+      img.set(x, y, c.radiance);
     }
   }
   return img;

@@ -47,6 +47,10 @@ struct ExposureStats {
 struct Exposure {
   Image image;  ///< what the observer sees, linear radiance
   Image plain;  ///< the same exposure over a plain table (no grid): what spot detection reads
+  /// The plain exposure with the markings left off the body (the same
+  /// samples, each with the unpainted albedo): spot detection's reference
+  /// for what the markings change, apart from the body's own outline.
+  Image unpainted;
   ExposureStats stats;
 };
 

@@ -74,7 +74,7 @@ ExposureResult exposeObservation(const Scenario& s, const Observation& seen, dou
   r.exposure = expose(sceneOf(s), r.camera, seen.poses, options);
   r.spots.ring = seen.ring;
   r.spots.threshold = s.observer.spotThreshold;
-  if (seen.visibleEnd && seen.ring.radius > 0) r.spots = findSpots(r.exposure.plain, r.camera, seen.ring, s.observer.spotThreshold, s.surface.tableRadius);
+  if (seen.visibleEnd && seen.ring.radius > 0) r.spots = findSpots(r.exposure.plain, r.exposure.unpainted, r.camera, seen.ring, s.observer.spotThreshold, s.surface.tableRadius);
   return r;
 }
 
@@ -103,6 +103,7 @@ nlohmann::json spotsJson(const Scenario& s, const Observation& seen, const Expos
               {"ring_radius_mm", finite(seen.ring.radius * 1e3)},
               {"ring_centre_mm", {finite(seen.ring.centre.x() * 1e3), finite(seen.ring.centre.y() * 1e3), finite(seen.ring.centre.z() * 1e3)}},
               {"ring_median_luminance", finite(r.spots.medianLuminance)},
+              {"ring_mark_tint", finite(r.spots.markTint)},
               {"strongest_contrast", finite(r.spots.strongestContrast)},
               {"ring_share_against_table", finite(r.spots.seenShare)},
               {"threshold", finite(r.spots.threshold)},

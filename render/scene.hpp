@@ -109,6 +109,9 @@ class PaintLookup {
   const Stretch& plainStretch() const { return plain_; }
   /// Linear albedo of the unpainted body.
   const Rgb& bodyColour() const { return paint_.body; }
+  /// Linear albedo at a body hit with the markings left off: the body
+  /// colour, or the bore colour inside the bore.
+  Rgb unpaintedAt(const BodyHit& hit) const { return hit.part == SurfacePart::Bore ? paint_.bore : paint_.body; }
 
  private:
   struct Compiled {

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <tuple>
 
 #include "core/constants.hpp"
 #include "core/markings.hpp"
@@ -95,28 +96,6 @@ std::vector<double> movingAverage(const std::vector<double>& v, int half) {
   return out;
 }
 
-// The profile divided by its first harmonic, a + b cos + c sin, times its
-// mean: a visitor sees the ring's near and far halves lit and shaded
-// differently, a slow swing round the ring that is not a spot. Spots (two
-// or more per turn) are harmonics two and up and stay.
-std::vector<double> withoutTilt(const std::vector<double>& v) {
-  const std::size_t n = v.size();
-  double mean = 0, c = 0, s = 0;
-  for (std::size_t i = 0; i < n; ++i) {
-    const double a = k::twoPi * double(i) / double(n);
-    mean += v[i] / double(n);
-    c += 2 * v[i] * std::cos(a) / double(n);
-    s += 2 * v[i] * std::sin(a) / double(n);
-  }
-  std::vector<double> out(n);
-  for (std::size_t i = 0; i < n; ++i) {
-    const double a = k::twoPi * double(i) / double(n);
-    const double trend = mean + c * std::cos(a) + s * std::sin(a);
-    out[i] = trend > 0 ? v[i] * mean / trend : v[i];
-  }
-  return out;
-}
-
 double medianOf(std::vector<double> v) {
   std::nth_element(v.begin(), v.begin() + std::ptrdiff_t(v.size() / 2), v.end());
   return v[v.size() / 2];
@@ -157,30 +136,51 @@ std::vector<double> profileRadii(const Ring& ring, double step) {
   return radii;
 }
 
-// The median luminance of the circle of each radius, in `bins` bins: the
-// local background at that distance from the centre. A spot's place across
-// the ring is judged against it, not against the ring's own median, or the
-// darker table beyond the swept disc would pass for the peak of a dark spot.
-std::vector<double> circleMedians(const Image& img, const Camera& camera, const Ring& ring,
-                                  const std::vector<double>& radii, int bins, double step) {
+// Lowest luminance a reference is taken at: against a black table the
+// Weber contrast of any mark is huge, not undefined.
+constexpr double darkestReference = 1e-4;
+
+// The two exposures spot detection reads: what the visitor sees (over a
+// plain table) and the same with the markings left off.
+struct SpotImages {
+  const Image& seen;
+  const Image& unpainted;
+  const Camera& camera;
+  const Ring& ring;
+  // The luminance of both in the bin at azimuth `phi`, `width` wide, at `radius`.
+  std::pair<double, double> luminances(double phi, double width, double radius, double step) const {
+    return {luminance(ringColour(seen, camera, ring, phi, width, radius, step)),
+            luminance(ringColour(unpainted, camera, ring, phi, width, radius, step))};
+  }
+  // How much the markings change the luminance there: seen / unpainted.
+  double markRatio(double phi, double width, double radius, double step) const {
+    const auto [lum, ref] = luminances(phi, width, radius, step);
+    return lum / std::max(ref, darkestReference);
+  }
+};
+
+// The median mark ratio of the circle of each radius, in `bins` bins: the
+// markings' tint at that distance from the centre. A spot's place across
+// the ring is judged against it: outside the swept disc the ratio is one.
+std::vector<double> circleMedians(const SpotImages& images, const std::vector<double>& radii, int bins, double step) {
   std::vector<double> medians;
   const double width = k::twoPi / bins;
   for (double r : radii) {
-    std::vector<double> lum(static_cast<std::size_t>(bins));
-    for (int i = 0; i < bins; ++i) lum[std::size_t(i)] = luminance(ringColour(img, camera, ring, width * i, width, r, step));
-    medians.push_back(medianOf(lum));
+    std::vector<double> ratio(static_cast<std::size_t>(bins));
+    for (int i = 0; i < bins; ++i) ratio[std::size_t(i)] = images.markRatio(width * i, width, r, step);
+    medians.push_back(medianOf(ratio));
   }
   return medians;
 }
 
-// Where across the ring the contrast at azimuth `phi` against the local
-// background peaks with the spot's sign.
-double peakRadius(const Image& img, const Camera& camera, const Ring& ring, double phi, double width, double sign,
-                  double step, const std::vector<double>& radii, const std::vector<double>& medians) {
-  double best = ring.radius, bestValue = -1e300;
+// Where across the ring the contrast the markings make at azimuth `phi`,
+// against their tint at the same radius, peaks with the spot's sign.
+double peakRadius(const SpotImages& images, double phi, double width, double sign, double step,
+                  const std::vector<double>& radii, const std::vector<double>& medians) {
+  double best = images.ring.radius, bestValue = -1e300;
   for (std::size_t i = 0; i < radii.size(); ++i) {
     if (!(medians[i] > 0)) continue;
-    const double c = sign * (luminance(ringColour(img, camera, ring, phi, width, radii[i], step)) / medians[i] - 1.0);
+    const double c = sign * (images.markRatio(phi, width, radii[i], step) / medians[i] - 1.0);
     if (c > bestValue) {
       bestValue = c;
       best = radii[i];
@@ -240,66 +240,75 @@ std::vector<std::pair<int, int>> joinNearRuns(const std::vector<std::pair<int, i
 
 }  // namespace
 
-SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, double threshold, double tableRadius) {
+SpotReport findSpots(const Image& image, const Image& unpainted, const Camera& camera, const Ring& ring,
+                     double threshold, double tableRadius) {
   SpotReport report;
   report.ring = ring;
   report.threshold = threshold;
+  const SpotImages images{image, unpainted, camera, ring};
   // One bin per pixel of the ring's length, at least 720 round the ring.
   const double step = camera.footprintAt(ring.centre);
   const int n = std::max(720, int(std::ceil(k::twoPi * ring.radius / step)));
   const double width = k::twoPi / n;
   const std::size_t count = static_cast<std::size_t>(n);
-  std::vector<Rgb> colour(count);
-  std::vector<double> lum(count);
-  for (int i = 0; i < n; ++i) {
-    colour[std::size_t(i)] = ringColour(img, camera, ring, width * i, width, ring.radius, step);
-    lum[std::size_t(i)] = luminance(colour[std::size_t(i)]);
-  }
+  std::vector<double> lum(count), ref(count);
+  for (int i = 0; i < n; ++i) std::tie(lum[std::size_t(i)], ref[std::size_t(i)]) = images.luminances(width * i, width, ring.radius, step);
   // Only the part of the ring seen against the table counts: the rest is
   // filled with the median of the part that does and takes no part below.
   const std::vector<bool> seen = seenBins(camera, ring, n, tableRadius, step, 2 * (smoothing + binAzimuthal));
-  std::vector<double> seenLum;
+  const auto medianOfSeen = [&](const std::vector<double>& v) {
+    std::vector<double> kept;
+    for (std::size_t i = 0; i < count; ++i)
+      if (seen[i]) kept.push_back(v[i]);
+    return kept.empty() ? 0.0 : medianOf(kept);
+  };
+  report.seenShare = double(std::count(seen.begin(), seen.end(), true)) / double(count);
+  if (report.seenShare < 0.25) return report;  // too little of the ring to judge
+  // The ratio of what is seen to the same without the markings, smoothed:
+  // what the markings change. The body's outline, the shading and the table
+  // are in both and divide out, so from a low eye the smeared edge of the
+  // body is no spot; a body without markings has none.
+  const std::vector<double> smoothLum = movingAverage(lum, smoothing), smoothRef = movingAverage(ref, smoothing);
+  report.medianLuminance = medianOfSeen(smoothLum);
+  std::vector<double> ratio(count);
+  for (std::size_t i = 0; i < count; ++i) ratio[i] = smoothLum[i] / std::max(smoothRef[i], darkestReference);
+  // The markings' tint of the ring: the median ratio, then the median again
+  // without the strong spots and a skirt of their own width either side, so
+  // that the spots and their approach do not pull down (or up) their own
+  // reference.
+  double tint = medianOfSeen(ratio);
+  if (!(tint > 0)) return report;
   for (std::size_t i = 0; i < count; ++i)
-    if (seen[i]) seenLum.push_back(lum[i]);
-  report.seenShare = double(seenLum.size()) / double(count);
-  if (seenLum.size() < count / 4) return report;  // too little of the ring to judge
-  const double fill = medianOf(seenLum);
-  for (std::size_t i = 0; i < count; ++i)
-    if (!seen[i]) lum[i] = fill;
-  // The background level: the ring's median, then the median again without
-  // the strong spots and a skirt of their own width either side, so that
-  // the spots and their approach do not pull down (or up) their own reference.
-  std::vector<double> smooth = withoutTilt(movingAverage(lum, smoothing));
-  report.medianLuminance = medianOf(smooth);
-  if (!(report.medianLuminance > 0)) return report;
-  for (std::size_t i = 0; i < count; ++i)
-    if (!seen[i]) smooth[i] = report.medianLuminance;
-  std::vector<bool> quiet(count, true);
-  for (const auto& [first, last] : runsBeyond(smooth, report.medianLuminance, 2 * threshold)) {
+    if (!seen[i]) ratio[i] = tint;
+  std::vector<bool> quiet(seen);
+  for (const auto& [first, last] : runsBeyond(ratio, tint, 2 * threshold)) {
     const int w = last - first + 1;
     for (int i = first - w; i <= last + w; ++i) quiet[std::size_t(((i % n) + n) % n)] = false;
   }
   std::vector<double> background;
   for (std::size_t i = 0; i < count; ++i)
-    if (quiet[i]) background.push_back(smooth[i]);
-  if (background.size() >= count / 10) report.medianLuminance = medianOf(background);
+    if (quiet[i]) background.push_back(ratio[i]);
+  if (background.size() >= count / 10) tint = medianOf(background);
   for (std::size_t i = 0; i < count; ++i)
-    if (!seen[i]) smooth[i] = report.medianLuminance;
-  // Weber contrast of each bin against it.
+    if (!seen[i]) ratio[i] = tint;
+  report.markTint = tint - 1.0;
+  // Weber contrast of each bin against the tinted ring: the spot's
+  // luminance over its surround's, were the surround the same place with
+  // the markings' mean tint.
   std::vector<double> contrast(count);
   for (std::size_t i = 0; i < count; ++i) {
-    contrast[i] = smooth[i] / report.medianLuminance - 1.0;
+    contrast[i] = ratio[i] / tint - 1.0;
     report.strongestContrast = std::max(report.strongestContrast, std::abs(contrast[i]));
   }
   // Spots: runs of at least two bins beyond the threshold, each placed
-  // across the ring against the local background (computed once, when
-  // there is a spot to place; a quarter of the ring's bins is enough for a median).
-  const std::vector<std::pair<int, int>> runs =
-      joinNearRuns(runsBeyond(smooth, report.medianLuminance, threshold), smooth, report.medianLuminance, n);
+  // across the ring against the markings' tint at each radius (computed
+  // once, when there is a spot to place; a quarter of the ring's bins is
+  // enough for a median).
+  const std::vector<std::pair<int, int>> runs = joinNearRuns(runsBeyond(ratio, tint, threshold), ratio, tint, n);
   std::vector<double> radii, medians;
   if (!runs.empty()) {
     radii = profileRadii(ring, step);
-    medians = circleMedians(img, camera, ring, radii, std::max(180, n / 4), step);
+    medians = circleMedians(images, radii, std::max(180, n / 4), step);
   }
   constexpr int minRun = 2;  // two pixels of ring length
   for (const auto& [first, last] : runs) {
@@ -317,9 +326,9 @@ SpotReport findSpots(const Image& img, const Camera& camera, const Ring& ring, d
     spot.azimuth = wrapAngle(width * (moment / weight));
     spot.contrast = contrast[std::size_t(peak % n)];
     spot.width = width * (last - first + 1);
-    spot.radius = peakRadius(img, camera, ring, spot.azimuth, width, sign, step, radii, medians);
+    spot.radius = peakRadius(images, spot.azimuth, width, sign, step, radii, medians);
     // The colour where the spot is strongest: on its peak across the ring.
-    spot.colour = ringColour(img, camera, ring, width * peak, width, spot.radius, step);
+    spot.colour = ringColour(image, camera, ring, width * peak, width, spot.radius, step);
     report.spots.push_back(spot);
   }
   std::sort(report.spots.begin(), report.spots.end(), [](const ImageSpot& a, const ImageSpot& b) { return a.azimuth < b.azimuth; });

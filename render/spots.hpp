@@ -1,7 +1,7 @@
 // Spot detection: along the ring the raised end's top point traces, find
-// where the image is darker or brighter than the ring's median by more than
-// a Weber contrast threshold. Works on top views and, with the ring
-// projected, on a visitor's view.
+// where the markings make the image darker or brighter than they make the
+// ring on the whole, by more than a Weber contrast threshold. Works on top
+// views and, with the ring projected, on a visitor's view.
 #pragma once
 #include <vector>
 
@@ -46,24 +46,32 @@ struct ImageSpot {
 struct SpotReport {
   Ring ring;
   double threshold = 0.02;     ///< Weber contrast a spot must exceed
-  double medianLuminance = 0;  ///< the ring's median relative luminance
+  double medianLuminance = 0;  ///< the ring's median relative luminance (seen against the table)
+  /// The markings' tint of the ring: the median over the ring (spots left
+  /// out) of the luminance seen over that of the unpainted body, less one.
+  double markTint = 0;
   double strongestContrast = 0;  ///< the largest |contrast| anywhere on the ring seen against the table, spot or not
   double seenShare = 1;          ///< share of the ring seen against the table top (the rest is not searched)
   std::vector<ImageSpot> spots;  ///< in order of azimuth
 };
 
-/// Finds the spots along `ring` in an image seen through `camera`. The ring
-/// is cut into bins a pixel of its length long (at least 720), each the mean
-/// of the image over two pixels either side of the ring; the contrast is
-/// smoothed over five bins and freed of its first harmonic (the near and far
-/// halves of a ring seen obliquely differ in shading); the reference is the
-/// median, taken again without the strong spots and their skirts; a spot is
-/// a run of bins, at least two pixels long, all beyond the threshold with
-/// one sign. Only the ring's part seen against the table top (within
-/// `tableRadius` of the lab origin) is searched: from a low eye the far side
-/// of the ring can stand against what lies beyond the table's edge. Below a
-/// quarter of the ring seen, nothing is reported.
-SpotReport findSpots(const Image& image, const Camera& camera, const Ring& ring, double threshold,
-                     double tableRadius = 1e300);
+/// Finds the spots the markings make along `ring` in `image`, seen through
+/// `camera`, with `unpainted` the same exposure with the markings left off
+/// the body (Exposure::unpainted). The ring is cut into bins a pixel of its
+/// length long (at least 720), each the mean of an image over two pixels
+/// either side of the ring, smoothed over five bins. What counts is the
+/// ratio of the two images: the body's outline, its shading and the table
+/// are in both and divide out, so only what the markings change is read
+/// (from a low eye the ring runs across the smeared outline of the body, a
+/// strong edge that is no spot). A bin's Weber contrast is its ratio over
+/// the markings' tint of the ring (the median ratio, taken again without
+/// the strong spots and their skirts); a spot is a run of bins, at least
+/// two pixels long, all beyond the threshold with one sign. Only the ring's
+/// part seen against the table top (within `tableRadius` of the lab origin)
+/// is searched: from a low eye the far side of the ring can stand against
+/// what lies beyond the table's edge. Below a quarter of the ring seen,
+/// nothing is reported.
+SpotReport findSpots(const Image& image, const Image& unpainted, const Camera& camera, const Ring& ring,
+                     double threshold, double tableRadius = 1e300);
 
 }  // namespace dm
