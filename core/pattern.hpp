@@ -107,7 +107,10 @@ struct PatternWindow {
   double spotSize = 0;                ///< angular size of the smallest seen spot about the centre, rad
   double spotSpread = 0;              ///< scatter of single stops about their spot's drifting place, rad (rms)
   int stopCount = 0;                  ///< stops of the visible end's marks in the window
-  std::optional<double> spotsPerRev;  ///< mean N over the precessing samples
+  /// N over the window: the integral of the relative spin over that of the
+  /// precession (visits of a mark to the top per revolution); none when the
+  /// mean precession is below minPrecessionForN
+  std::optional<double> spotsPerRev;
   double meanTilt = 0;                ///< rad
   double meanPrecession = 0;          ///< rad/s
   PatternKind kind = PatternKind::None;
