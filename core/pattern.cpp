@@ -368,6 +368,7 @@ PatternWindow patternWindow(const Trajectory& tr, const std::vector<MarkedPoint>
     for (const PatternSpot& s : spotsOfSequence(seq, revisit->spots, w.patternDrift)) all.push_back(s);
   w.spots = mergeSpots(all, w.spotSize);
   w.revsPerVisit = std::max(1, int(std::lround(revisit->period * std::abs(w.meanPrecession) / k::twoPi)));
+  w.stopsPerVisit = revisit->spots;
   w.kind = kindOfDrift(w.patternDrift, w.spotSize, analysis.eyeTime, t1 - t0);
   return w;
 }

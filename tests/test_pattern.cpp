@@ -271,6 +271,7 @@ TEST_CASE("a rational N = 4 gives four stationary spots at the analytic azimuths
     CHECK(w.kind == PatternKind::Stationary);
     REQUIRE(w.spots.size() == 4);
     CHECK(w.revsPerVisit == 1);
+    CHECK(w.stopsPerVisit == 4);  // N = 4/1
     REQUIRE(w.spotsPerRev);
     CHECK(*w.spotsPerRev == Approx(4).epsilon(1e-9));
     CHECK(degrees(w.meanTilt) == Approx(5).epsilon(1e-9));
@@ -290,6 +291,7 @@ TEST_CASE("N = 7/2 gives seven spots, each visited every two revolutions", "[pat
   CHECK(w.kind == PatternKind::Stationary);
   CHECK(w.spots.size() == 7);
   CHECK(w.revsPerVisit == 2);
+  CHECK(w.stopsPerVisit == 7);  // N = 7/2 in lowest terms
   for (std::size_t j = 0; j < w.spots.size(); ++j)
     CHECK(angleDiffDeg(degrees(w.spots[j].azimuth), degrees(w.spots[0].azimuth) + 360.0 / 7 * double(j)) ==
           Approx(0).margin(1e-6));
@@ -379,6 +381,7 @@ TEST_CASE("two marks on the raised end make their own spots, merged where they c
     const auto points = markedPoints(r.body, paint, {});
     const auto windows = patternWindows(tr, points, stopEvents(tr, points, 0.05), {});
     CHECK(windows.at(0).spots.size() == spots);
+    CHECK(windows.at(0).stopsPerVisit == 4);  // each mark still comes back every 4 stops: N = 4/1
   }
 }
 
