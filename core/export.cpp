@@ -48,6 +48,11 @@ std::string xyzColumns(const std::string& name) {
 
 constexpr double degPerRad = 1 / k::degree;
 
+// "7/2": the rational N = p/q the stops repeat with (PatternWindow::stopsPerVisit, revsPerVisit).
+std::string ratioText(const PatternWindow& w) {
+  return std::to_string(w.stopsPerVisit) + "/" + std::to_string(w.revsPerVisit);
+}
+
 }  // namespace
 
 std::string tracesCsv(const PatternAnalysis& a) {
@@ -96,6 +101,7 @@ nlohmann::json patternJson(const std::vector<PatternWindow>& windows) {
     j["spots_per_rev"] = w.spotsPerRev ? json(*w.spotsPerRev) : json(nullptr);
     j["kind"] = patternKindName(w.kind);
     j["revs_per_visit"] = w.revsPerVisit;
+    j["n_ratio"] = w.stopsPerVisit > 0 ? json(ratioText(w)) : json(nullptr);
     j["pattern_drift_deg_s"] = w.patternDrift * degPerRad;
     j["spot_size_deg"] = w.spotSize * degPerRad;
     j["spot_spread_deg"] = w.spotSpread * degPerRad;
@@ -113,6 +119,7 @@ std::string patternSentence(const PatternWindow& w) {
   if (!w.visibleEnd) return o.str() + "no end raised";
   o << "end " << endName(*w.visibleEnd) << " seen from above";
   if (w.spotsPerRev) o << ", N = " << fmt(*w.spotsPerRev, 5);
+  if (w.stopsPerVisit > 0) o << " (near " << ratioText(w) << ")";
   switch (w.kind) {
     case PatternKind::None: o << ", too few stops to tell a pattern"; break;
     case PatternKind::Ring:

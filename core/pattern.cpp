@@ -154,10 +154,20 @@ struct WindowMeans {
   std::optional<End> visibleEnd;
 };
 
+// N over a window is the mark's turn about the axis, relative to the top,
+// divided by the axis' turn about the vertical: the time integrals of the
+// relative spin and of the precession (the top point turns with the axis'
+// frame, whose spin about the axis is Omega sin(tilt) even while the tilt
+// nutates, so the mark's angle from the top grows at exactly the relative
+// spin). That is the number of visits to the top per revolution, which the
+// stops show. A mean of the instantaneous ratio is not: where the
+// precession rate nutates by a fraction e about its mean, 1/Omega averages
+// to about (1 + e^2/2) / mean(Omega) (Jensen's inequality); it read N 0.01
+// to 0.04 high in the demo's first two seconds.
 WindowMeans windowMeans(const Trajectory& tr, double t0, double t1) {
   WindowMeans m;
-  std::size_t count = 0, precessing = 0, raisedA = 0, raisedB = 0;
-  double sumN = 0;
+  std::size_t count = 0, raisedA = 0, raisedB = 0;
+  double sumRelativeSpin = 0;
   for (std::size_t i = tr.indexAt(t0); i < tr.samples.size() && tr.samples[i].t <= t1; ++i) {
     const Sample& s = tr.samples[i];
     if (s.t < t0) continue;
@@ -166,10 +176,7 @@ WindowMeans windowMeans(const Trajectory& tr, double t0, double t1) {
     m.centre += s.position;
     m.tilt += motion.tilt;
     m.precession += motion.precession;
-    if (motion.precessing) {
-      ++precessing;
-      sumN += motion.spotsPerRev;
-    }
+    sumRelativeSpin += motion.relativeSpin;
     const std::optional<End> raised = raisedEndOf(s.orientation);
     if (raised) ++(*raised == End::A ? raisedA : raisedB);
   }
@@ -177,7 +184,8 @@ WindowMeans windowMeans(const Trajectory& tr, double t0, double t1) {
   m.centre /= double(count);
   m.tilt /= double(count);
   m.precession /= double(count);
-  if (precessing > 0) m.spotsPerRev = sumN / double(precessing);
+  // Samples are evenly spaced, so the sums stand for the time integrals.
+  if (std::abs(m.precession) >= minPrecessionForN) m.spotsPerRev = sumRelativeSpin / double(count) / m.precession;
   if (2 * raisedA > count) m.visibleEnd = End::A;
   if (2 * raisedB > count) m.visibleEnd = End::B;
   return m;
@@ -360,6 +368,7 @@ PatternWindow patternWindow(const Trajectory& tr, const std::vector<MarkedPoint>
     for (const PatternSpot& s : spotsOfSequence(seq, revisit->spots, w.patternDrift)) all.push_back(s);
   w.spots = mergeSpots(all, w.spotSize);
   w.revsPerVisit = std::max(1, int(std::lround(revisit->period * std::abs(w.meanPrecession) / k::twoPi)));
+  w.stopsPerVisit = revisit->spots;
   w.kind = kindOfDrift(w.patternDrift, w.spotSize, analysis.eyeTime, t1 - t0);
   return w;
 }

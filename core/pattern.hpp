@@ -102,12 +102,19 @@ struct PatternWindow {
   double start = 0, end = 0;          ///< s
   std::optional<End> visibleEnd;      ///< the end raised for most of the window: its marks are seen from above
   std::vector<PatternSpot> spots;            ///< sorted by azimuth
-  int revsPerVisit = 0;               ///< revolutions between visits of one spot (0 without spots)
+  int revsPerVisit = 0;               ///< q: revolutions between visits of one spot (0 without spots)
+  /// p: stops of one mark between its visits to one place, so that N is
+  /// near p/q (lowest terms: p is the fewest that come back); one mark
+  /// makes p spots, several marks more (0 without spots)
+  int stopsPerVisit = 0;
   double patternDrift = 0;            ///< mean drift of a spot from one visit to the next, rad/s
   double spotSize = 0;                ///< angular size of the smallest seen spot about the centre, rad
   double spotSpread = 0;              ///< scatter of single stops about their spot's drifting place, rad (rms)
   int stopCount = 0;                  ///< stops of the visible end's marks in the window
-  std::optional<double> spotsPerRev;  ///< mean N over the precessing samples
+  /// N over the window: the integral of the relative spin over that of the
+  /// precession (visits of a mark to the top per revolution); none when the
+  /// mean precession is below minPrecessionForN
+  std::optional<double> spotsPerRev;
   double meanTilt = 0;                ///< rad
   double meanPrecession = 0;          ///< rad/s
   PatternKind kind = PatternKind::None;

@@ -34,11 +34,12 @@ PatternAnalysis smallAnalysis() {
   w.visibleEnd = End::A;
   w.spots = {{10 * k::degree, -2 * k::degree, 6}, {100 * k::degree, -2 * k::degree, 6}};
   w.revsPerVisit = 1;
+  w.stopsPerVisit = 2;
   w.patternDrift = -2 * k::degree;
   w.spotSize = 6 * k::degree;
   w.spotSpread = 1.5 * k::degree;
   w.stopCount = 12;
-  w.spotsPerRev = 3.99;
+  w.spotsPerRev = 1.99;
   w.meanTilt = 1.5 * k::degree;
   w.meanPrecession = 6 * k::twoPi;
   w.kind = PatternKind::Creeping;
@@ -76,9 +77,10 @@ TEST_CASE("summary pattern windows carry the issue's keys in display units", "[e
   CHECK(w["spot_count"] == 2);
   CHECK(w["spot_azimuths_deg"][1].get<double>() == Approx(100));
   CHECK(w["drift_deg_s"][0].get<double>() == Approx(-2));
-  CHECK(w["spots_per_rev"].get<double>() == Approx(3.99));
+  CHECK(w["spots_per_rev"].get<double>() == Approx(1.99));
   CHECK(w["kind"] == "creeping");
   CHECK(w["revs_per_visit"] == 1);
+  CHECK(w["n_ratio"] == "2/1");
   CHECK(w["spot_size_deg"].get<double>() == Approx(6));
   CHECK(w["spot_spread_deg"].get<double>() == Approx(1.5));
   CHECK(w["mean_tilt_deg"].get<double>() == Approx(1.5));
@@ -88,11 +90,12 @@ TEST_CASE("summary pattern windows carry the issue's keys in display units", "[e
   CHECK(j[1]["spots_per_rev"].is_null());
   CHECK(j[1]["spot_azimuths_deg"].empty());
   CHECK(j[1]["kind"] == "none");
+  CHECK(j[1]["n_ratio"].is_null());
 }
 
 TEST_CASE("the pattern sentence says how many spots, how they move and how often each is visited", "[export]") {
   const auto a = smallAnalysis();
   CHECK(patternSentence(a.windows[0]) ==
-        "0-1 s: end A seen from above, N = 3.99, 2 spots creeping at -2 deg/s, each visited every 1 rev");
+        "0-1 s: end A seen from above, N = 1.99 (near 2/1), 2 spots creeping at -2 deg/s, each visited every 1 rev");
   CHECK(patternSentence(a.windows[1]) == "0.5-1.5 s: no end raised");
 }
