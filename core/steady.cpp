@@ -45,6 +45,30 @@ namespace dm {
 //    833, 2000). Thin hoop (L -> 0, r -> R, I_a = R^2, I_t = R^2/2):
 //    Omega^2 = 2 g / (R sin theta).
 
+// The centre orbit (our derivation, checked twice; rho = 0 gives the
+// above exactly). Everything turns at Omega about a vertical axis through
+// O; e is the horizontal unit from the floor contact towards the raised
+// end, t = z x e, a = cos e + sin z, and the centre is c = O + rho e. With
+// b = (L/2) cos - R sin and h = (L/2) sin + R cos, P - c = -b e - h z and
+// the top Q - c = b e + h z.
+//  - Rolling. v_c = Omega rho t and w x (P - c) = (-Omega b + psi_dot R) t
+//    (using h cos - b sin = R), so the contact material point is at rest
+//    when psi_dot / Omega = (b - rho) / R = (L/D) cos - sin - rho/R. The top's
+//    material point then moves at v_c + w x (Q - c) = 2 Omega rho t: still
+//    only with the centre still. The top circles O at radius |b + rho| (the
+//    ring), the contact at |b - rho|; the ceiling stays at 2 h.
+//  - Torque balance. H = I_a w_a a + I_t Omega cos d as before, now with
+//    w_a = Omega ((L/D) cos - rho/R); dH/dt = Omega z x H =
+//    Omega^2 cos (I_a ((L/D) cos - rho/R) - I_t sin) t. The contact carries
+//    the weight m g z and the centripetal friction -m Omega^2 rho e, whose
+//    torque about the centre is (P - c) x (m g z - m Omega^2 rho e) =
+//    m (g b + h Omega^2 rho) t. So
+//      Omega^2 [cos (I_a ((L/D) cos - rho/R) - I_t sin) - rho h] = g b
+//    per unit mass, and rolling needs the friction coefficient
+//    Omega^2 |rho| / g. The gyroscopic bracket on the left now has no
+//    closed-form zero: its zeros are found numerically and bound the
+//    branches with those of b.
+
 namespace {
 
 struct Geometry {
@@ -61,10 +85,22 @@ Geometry geometryOf(const Cylinder& c) {
 }
 
 // Torque balance residual per unit mass, m^2/s^2: zero in a steady state.
-double residual(const Geometry& G, double omega2, double a, double g) {
+// Written so that rho = 0 subtracts exact zeros from physics.md's form: the
+// centre-still answers keep every bit.
+double residual(const Geometry& G, double omega2, double a, double g, double rho) {
   const double ca = std::cos(a), sa = std::sin(a);
-  return omega2 * ca * (G.ia * G.N0 * ca - G.it * sa) - g * (G.L / 2 * ca - G.R * sa);
+  return omega2 * ca * (G.ia * G.N0 * ca - G.ia * rho / G.R - G.it * sa) -
+         omega2 * rho * (G.L / 2 * sa + G.R * ca) - g * (G.L / 2 * ca - G.R * sa);
 }
+
+// The gyroscopic side over Omega^2, m^2: cos (I_a ((L/D) cos - rho/R) - I_t sin) - rho h.
+double gyroscopic(const Geometry& G, double a, double rho) {
+  const double ca = std::cos(a), sa = std::sin(a);
+  return ca * (G.ia * G.N0 * ca - G.ia * rho / G.R - G.it * sa) - rho * (G.L / 2 * sa + G.R * ca);
+}
+
+// The gravity arm b = (L/2) cos - R sin, m.
+double gravityArm(const Geometry& G, double a) { return G.L / 2 * std::cos(a) - G.R * std::sin(a); }
 
 SteadyTiltLimits limitsOf(const Geometry& G) {
   const double balance = std::atan(G.N0);             // centre above the contact
@@ -72,16 +108,20 @@ SteadyTiltLimits limitsOf(const Geometry& G) {
   return {std::min(balance, gyro), std::max(balance, gyro)};
 }
 
-SteadySpin stateAt(const Geometry& G, double a, double omega, bool pattern) {
+SteadySpin stateAt(const Geometry& G, double a, double omega, bool pattern, double rho, double g) {
   SteadySpin s;
   const double ca = std::cos(a), sa = std::sin(a);
   s.tilt = a;
   s.precession = omega;
-  s.spotsPerRev = G.N0 * ca - sa;
+  s.spotsPerRev = G.N0 * ca - sa - rho / G.R;
   s.relativeSpin = omega * s.spotsPerRev;
   s.centreHeight = G.L / 2 * sa + G.R * ca;
   s.ceilingHeight = 2 * s.centreHeight;
-  s.contactRadius = std::abs(G.L / 2 * ca - G.R * sa);
+  s.contactRadius = std::abs(G.L / 2 * ca - G.R * sa - rho);
+  s.ringRadius = std::abs(G.L / 2 * ca - G.R * sa + rho);
+  s.orbit = rho;
+  s.frictionNeeded = omega * omega * std::abs(rho) / g;
+  s.topSpeed = 2 * std::abs(omega * rho);
   s.nearestSpots = int(std::lround(std::abs(s.spotsPerRev)));
   if (s.nearestSpots > 0) {
     s.driftDegPerRev = patternDriftDegPerRev(s.spotsPerRev, s.nearestSpots);
@@ -142,17 +182,74 @@ std::vector<double> rootsIn(F&& f, double lo, double hi) {
 
 std::string revS(double omega) { return fmt(omega / k::twoPi, 4) + " rev/s"; }
 std::string degText(double a) { return fmt(a / k::degree, 4) + " deg"; }
+std::string orbitText(double rho) { return " with the centre orbiting " + fmt(rho * 1e3, 4) + " mm"; }
+
+// A tilt interval on which the torque balance can hold: the gravity arm b
+// and the gyroscopic side have one sign, so Omega^2 > 0. Rolling states lie
+// where both are positive, standing ones where both are negative.
+struct Branch {
+  double lo = 0, hi = 0;  // rad
+  bool rolling = false;
+};
+
+// The branch intervals over [0, pi/2], lowest first. With the centre still
+// they are the closed-form limits (so those answers keep every bit); on an
+// orbit the zeros of the gyroscopic side are found like the roots.
+std::vector<Branch> branchesOf(const Geometry& G, double rho) {
+  if (rho == 0) {
+    const SteadyTiltLimits lim = limitsOf(G);
+    return {{0.0, lim.patternMax, true}, {lim.standingMin, k::pi / 2, false}};
+  }
+  std::vector<double> cuts = rootsIn([&](double a) { return gyroscopic(G, a, rho); }, 0.0, k::pi / 2);
+  cuts.insert(cuts.end(), {0.0, std::atan(G.N0), k::pi / 2});
+  std::sort(cuts.begin(), cuts.end());
+  cuts.erase(std::unique(cuts.begin(), cuts.end()), cuts.end());
+  std::vector<Branch> out;
+  for (std::size_t i = 0; i + 1 < cuts.size(); ++i) {
+    const double mid = 0.5 * (cuts[i] + cuts[i + 1]);
+    const double arm = gravityArm(G, mid), gyro = gyroscopic(G, mid, rho);
+    if ((arm > 0 && gyro > 0) || (arm < 0 && gyro < 0)) out.push_back({cuts[i], cuts[i + 1], arm > 0});
+  }
+  return out;
+}
 
 // Why the rolling branch has no root at this precession.
-std::string noPatternAtPrecession(const Geometry& G, double omega, double omegaMin) {
+std::string noPatternAtPrecession(const Geometry& G, double omega, double omegaMin, double rho, double g) {
   if (omega == 0) return "a precession of 0 is no spin: there is no steady spin";
-  if (G.it >= G.ia && omega < omegaMin)
-    return "precession " + revS(omega) + " is below the lowest that keeps the end up, " + revS(omegaMin) +
-           " for this diameter and wall";
-  if (G.it < G.ia && omega > omegaMin)
-    return "precession " + revS(omega) + " is above " + revS(omegaMin) +
-           ": a body this short (axial inertia above transverse) rolls steadily on its rim only below that";
-  return "no rolling steady state at precession " + revS(omega);
+  if (rho == 0) {
+    if (G.it >= G.ia && omega < omegaMin)
+      return "precession " + revS(omega) + " is below the lowest that keeps the end up, " + revS(omegaMin) +
+             " for this diameter and wall";
+    if (G.it < G.ia && omega > omegaMin)
+      return "precession " + revS(omega) + " is above " + revS(omegaMin) +
+             ": a body this short (axial inertia above transverse) rolls steadily on its rim only below that";
+    return "no rolling steady state at precession " + revS(omega);
+  }
+  // On an orbit: the precessions the rolling states span, sampled.
+  double lowest = std::numeric_limits<double>::infinity(), highest = 0;
+  for (const Branch& b : branchesOf(G, rho)) {
+    if (!b.rolling) continue;
+    for (int i = 0; i <= rootSamples; ++i) {
+      const double a = b.lo + (b.hi - b.lo) * i / rootSamples;
+      const double w = std::sqrt(g * gravityArm(G, a) / gyroscopic(G, a, rho));
+      if (!std::isfinite(w) || !(w > 0)) continue;
+      lowest = std::min(lowest, w);
+      highest = std::max(highest, w);
+    }
+  }
+  if (!(highest > 0)) return "no tilt lets the lower rim roll steadily" + orbitText(rho);
+  if (omega < lowest)
+    return "precession " + revS(omega) + " is below the lowest rolling steady precession" + orbitText(rho) +
+           ", about " + revS(lowest);
+  if (omega > highest)
+    return "precession " + revS(omega) + " is above the highest rolling steady precession" + orbitText(rho) +
+           ", about " + revS(highest);
+  return "no rolling steady state at precession " + revS(omega) + orbitText(rho);
+}
+
+void checkOrbit(CentreOrbit orbit) {
+  if (!std::isfinite(orbit.rho))
+    throw std::invalid_argument("centre orbit must be finite, got " + std::to_string(orbit.rho) + " m");
 }
 
 }  // namespace
@@ -192,49 +289,65 @@ bool squatBody(const Cylinder& c) {
 
 SteadyTiltLimits steadyTiltLimits(const Cylinder& c) { return limitsOf(geometryOf(c)); }
 
-PatternResult patternAtPrecession(const Cylinder& c, double omega, double g) {
+PatternResult patternAtPrecession(const Cylinder& c, double omega, CentreOrbit orbit, double g) {
   if (!(omega >= 0) || !std::isfinite(omega))
     throw std::invalid_argument("precession must be finite and >= 0 rad/s, got " + std::to_string(omega));
+  checkOrbit(orbit);
   const Geometry G = geometryOf(c);
+  const double rho = orbit.rho;
   PatternResult r;
   if (omega == 0) return r;
   const double omega2 = omega * omega;
-  const auto roots = rootsIn([&](double a) { return residual(G, omega2, a, g); }, 0.0, limitsOf(G).patternMax);
-  if (roots.empty()) return r;
-  r.found = true;
-  r.spin = stateAt(G, roots.front(), omega, true);
+  for (const Branch& b : branchesOf(G, rho)) {
+    if (!b.rolling) continue;
+    const auto roots = rootsIn([&](double a) { return residual(G, omega2, a, g, rho); }, b.lo, b.hi);
+    if (roots.empty()) continue;
+    r.found = true;
+    r.spin = stateAt(G, roots.front(), omega, true, rho, g);
+    return r;
+  }
   return r;
 }
 
-SteadySolution steadyAtPrecession(const Cylinder& c, double omega, double g) {
-  const PatternResult p = patternAtPrecession(c, omega, g);  // checks the inputs
+PatternResult patternAtPrecession(const Cylinder& c, double omega, double g) {
+  return patternAtPrecession(c, omega, CentreOrbit{}, g);
+}
+
+SteadySolution steadyAtPrecession(const Cylinder& c, double omega, CentreOrbit orbit, double g) {
+  const PatternResult p = patternAtPrecession(c, omega, orbit, g);  // checks the inputs
   const Geometry G = geometryOf(c);
+  const double rho = orbit.rho;
   SteadySolution s;
   s.minPrecession = std::sqrt(g * G.R / G.ia);
   if (omega == 0) {
-    s.reason = noPatternAtPrecession(G, omega, s.minPrecession);
+    s.reason = noPatternAtPrecession(G, omega, s.minPrecession, rho, g);
     return s;
   }
   const double omega2 = omega * omega;
-  const auto f = [&](double a) { return residual(G, omega2, a, g); };
-  const SteadyTiltLimits lim = limitsOf(G);
-  // Further rolling roots (only possible for squat bodies), then the standing ones.
-  for (double a : rootsIn(f, 0.0, lim.patternMax))
-    if (!p.found || a != p.spin.tilt) s.branches.push_back(stateAt(G, a, omega, false));
-  for (double a : rootsIn(f, lim.standingMin, k::pi / 2))
-    if (a < k::pi / 2 && (s.branches.empty() || a != s.branches.back().tilt))
-      s.branches.push_back(stateAt(G, a, omega, false));
+  const auto f = [&](double a) { return residual(G, omega2, a, g, rho); };
+  // Every root but the pattern state's: further rolling roots (squat bodies,
+  // or an orbit), then the standing ones.
+  for (const Branch& b : branchesOf(G, rho))
+    for (double a : rootsIn(f, b.lo, b.hi))
+      if (a < k::pi / 2 && (!p.found || a != p.spin.tilt) && (s.branches.empty() || a != s.branches.back().tilt))
+        s.branches.push_back(stateAt(G, a, omega, false, rho, g));
   if (p.found) s.branches.push_back(p.spin);
   std::sort(s.branches.begin(), s.branches.end(),
             [](const SteadySpin& x, const SteadySpin& y) { return x.tilt < y.tilt; });
-  if (!p.found) s.reason = noPatternAtPrecession(G, omega, s.minPrecession);
+  if (!p.found) s.reason = noPatternAtPrecession(G, omega, s.minPrecession, rho, g);
   return s;
 }
 
-SteadySolution steadyAtTilt(const Cylinder& c, double tilt, double g) {
+SteadySolution steadyAtPrecession(const Cylinder& c, double omega, double g) {
+  return steadyAtPrecession(c, omega, CentreOrbit{}, g);
+}
+
+SteadySolution steadyAtTilt(const Cylinder& c, double tilt, CentreOrbit orbit, double g) {
   if (!(tilt >= 0 && tilt <= k::pi / 2))
     throw std::invalid_argument("tilt must be within 0 to pi/2 rad, got " + std::to_string(tilt));
+  checkOrbit(orbit);
   const Geometry G = geometryOf(c);
+  const double rho = orbit.rho;
   const SteadyTiltLimits lim = limitsOf(G);
   SteadySolution s;
   s.minPrecession = std::sqrt(g * G.R / G.ia);
@@ -242,27 +355,38 @@ SteadySolution steadyAtTilt(const Cylinder& c, double tilt, double g) {
     s.reason = "standing upright (tilt 90 deg) would need an infinite precession";
     return s;
   }
-  if (tilt >= lim.patternMax && tilt <= lim.standingMin) {
+  if (rho == 0 && tilt >= lim.patternMax && tilt <= lim.standingMin) {
     s.reason = "no steady spin at tilt " + degText(tilt) + ": from " + degText(lim.patternMax) + " to " +
                degText(lim.standingMin) + " the gravity torque and the gyroscopic torque cannot balance";
     return s;
   }
-  // Closed form: Omega^2 = g ((L/2) cos - R sin) / (cos (I_a (L/D) cos - I_t sin)).
+  // Closed form: Omega^2 = g b / (cos (I_a ((L/D) cos - rho/R) - I_t sin) - rho h).
   const double ca = std::cos(tilt), sa = std::sin(tilt);
-  const double omega2 = g * (G.L / 2 * ca - G.R * sa) / (ca * (G.ia * G.N0 * ca - G.it * sa));
+  const double omega2 = g * (G.L / 2 * ca - G.R * sa) /
+                        (ca * (G.ia * G.N0 * ca - G.ia * rho / G.R - G.it * sa) - rho * (G.L / 2 * sa + G.R * ca));
   if (!(omega2 > 0) || !std::isfinite(omega2)) {
     s.reason = "no steady spin at tilt " + degText(tilt);
+    if (rho != 0) s.reason += orbitText(rho) + ": the gravity torque and the gyroscopic torque cannot balance";
     return s;
   }
-  const bool pattern = tilt < lim.patternMax;
-  s.branches.push_back(stateAt(G, tilt, std::sqrt(omega2), pattern));
+  const bool pattern = rho == 0 ? tilt < lim.patternMax : gravityArm(G, tilt) > 0;
+  s.branches.push_back(stateAt(G, tilt, std::sqrt(omega2), pattern, rho, g));
   if (!pattern)
-    s.reason = "tilt " + degText(tilt) + " is on the standing branch (above " + degText(lim.standingMin) +
-               "): a steady state nearly on end, not the pattern state";
+    s.reason = rho == 0 ? "tilt " + degText(tilt) + " is on the standing branch (above " + degText(lim.standingMin) +
+                              "): a steady state nearly on end, not the pattern state"
+                        : "tilt " + degText(tilt) + " is on the standing branch (the contact beyond the centre)" +
+                              orbitText(rho) + ": a steady state nearly on end, not the pattern state";
   return s;
 }
 
+SteadySolution steadyAtTilt(const Cylinder& c, double tilt, double g) { return steadyAtTilt(c, tilt, CentreOrbit{}, g); }
+
 // ---- the prescribed motion ------------------------------------------------
+
+Vec3 SteadyMotion::velocityAt(double t) const {
+  const double phi = azimuth0 + spin.precession * t;
+  return spin.precession * spin.orbit * Vec3(-std::sin(phi), std::cos(phi), 0);
+}
 
 Vec3 SteadyMotion::raisedAxisAt(double t) const {
   const double phi = azimuth0 + spin.precession * t;
@@ -283,6 +407,8 @@ Pose SteadyMotion::poseAt(double t) const {
                     Quat(AA(endSign(raised) * roll, Vec3::UnitZ()));
   p.worldFromBody.normalize();
   p.position = Vec3(centre.x(), centre.y(), spin.centreHeight);
+  // The orbit, added only when there is one (a still centre keeps its bits).
+  if (spin.orbit != 0) p.position += spin.orbit * Vec3(std::cos(phi), std::sin(phi), 0);
   return p;
 }
 

@@ -1,12 +1,16 @@
-// The steady spin with a fixed centre (physics.md sections 3 and 4): the
-// state a well-launched tube settles into and the one that paints the spots.
-// The centre is at rest, the lower end's rim rolls on the table and the top
-// of the raised end is at rest too. Given the geometry and the precession
-// rate (or the tilt) the solver finds the other and everything a designer
-// reads off it: relative spin, spots per revolution, the floor contact
-// circle, the imaginary ceiling, the pattern's drift and the lowest
-// precession that keeps the end up. The mass cancels: only the geometry and
-// g matter.
+// The steady spin (physics.md sections 3 and 4): the state a well-launched
+// tube settles into and the one that paints the spots. The lower end's rim
+// rolls on the table while everything turns at the precession rate about a
+// vertical axis. With the centre on that axis (physics.md's state) the top
+// of the raised end is at rest too; a hand launch usually settles with the
+// centre circling the axis at a small signed offset rho along the axis'
+// horizontal direction (CentreOrbit), held by friction. Given the geometry,
+// the orbit and the precession rate (or the tilt) the solver finds the other
+// and everything a designer reads off it: relative spin, spots per
+// revolution, the floor contact circle and the ring the top traces, the
+// imaginary ceiling, the pattern's drift, the friction the orbit needs and
+// the lowest precession that keeps the end up. The mass cancels: only the
+// geometry, the orbit and g matter.
 #pragma once
 #include <cmath>
 #include <string>
@@ -42,17 +46,43 @@ inline constexpr InputRange tilt{"tilt", "deg", 0, 90};
 inline constexpr InputRange sweepStep{"sweep step", "rev/s", 1e-4, 100};
 /// Most rows a sweep prints (a 0..100 rev/s sweep at 1e-3 rev/s steps).
 inline constexpr int maxSweepRows = 100001;
+/// Signed centre orbit rho, mm (CentreOrbit): as far either way as the
+/// longest body the scenario table allows (body.length_mm, 1000 mm). A
+/// launch settles with a few millimetres; the friction the answer needs
+/// says whether a table can hold a larger one.
+inline constexpr InputRange orbit{"centre orbit", "mm", -1000, 1000};
 }  // namespace steady_input
 
+/// Where the centre goes in a steady spin. Everything turns at the
+/// precession rate Omega about a vertical axis through O; e is the
+/// horizontal unit from the floor contact towards the raised end. The
+/// centre is c = O + rho e: rho = 0 is physics.md section 3's state with the
+/// centre still; rho != 0 circles the centre about O at radius |rho|, the
+/// table's friction supplying the centripetal force m Omega^2 rho.
+struct CentreOrbit {
+  double rho = 0;  ///< m, signed: + towards the raised end, - towards the floor contact
+};
+
 /// One steady state. Angles in radians, rates in rad/s, lengths in metres.
+/// b = (L/2) cos a - R sin a is the horizontal offset of the contact circle's
+/// centre, rho the centre orbit (CentreOrbit).
 struct SteadySpin {
   double tilt = 0;            ///< raised axis above the horizontal, rad (0..pi/2)
   double precession = 0;      ///< Omega, azimuth rate of the raised axis, rad/s, > 0
-  double relativeSpin = 0;    ///< psi_dot = Omega ((L/D) cos a - sin a), rad/s
+  double relativeSpin = 0;    ///< psi_dot = Omega ((L/D) cos a - sin a - rho/R), rad/s
   double spotsPerRev = 0;     ///< N = relativeSpin / precession (negative on the standing branch)
-  double contactRadius = 0;   ///< radius of the floor contact circle |(L/2) cos a - R sin a|, m
+  double contactRadius = 0;   ///< radius of the floor contact circle about the spin axis |b - rho|, m
+  double ringRadius = 0;      ///< radius of the ring the raised end's top traces about the spin axis |b + rho|, m
   double ceilingHeight = 0;   ///< height of the imaginary ceiling the raised end's top touches, 2 z_c, m
   double centreHeight = 0;    ///< z_c = (L/2) sin a + R cos a, m
+  double orbit = 0;           ///< rho, the centre's signed offset from the spin axis, m (CentreOrbit)
+  /// Friction coefficient the orbit needs to roll: Omega^2 |rho| / g (the
+  /// centripetal force over the weight); 0 with the centre still.
+  double frictionNeeded = 0;
+  /// Speed of the raised end's top point across the table, m/s: 2 |Omega
+  /// rho|. With the centre still the mark stands still at the top; on an
+  /// orbit it passes the top this fast, along the ring.
+  double topSpeed = 0;
   /// Drift of the nearestSpots-spot pattern, degrees of azimuth per
   /// precession revolution, + in the direction of precession (NaN when
   /// nearestSpots is 0: fewer than half a spot per revolution).
@@ -65,19 +95,27 @@ struct SteadySpin {
 /// Every steady state at one input, lowest tilt first.
 struct SteadySolution {
   std::vector<SteadySpin> branches;
-  double minPrecession = 0;  ///< minSteadyPrecession() of the body, rad/s
+  double minPrecession = 0;  ///< minSteadyPrecession() of the body (centre still), rad/s
   std::string reason;        ///< why there is no pattern state; empty when there is one
   /// The pattern state, or nullptr when none exists.
   const SteadySpin* pattern() const;
 };
 
-/// Every steady state at precession `precession` (rad/s, >= 0; 0 gives none).
-/// Throws std::invalid_argument for a negative or non-finite precession or a
-/// body that is not a cylinder (see checkSteadyGeometry).
+/// Every steady state at precession `precession` (rad/s, >= 0; 0 gives none)
+/// with the centre on `orbit` (finite). Throws std::invalid_argument for a
+/// negative or non-finite precession or orbit or a body that is not a
+/// cylinder (see checkSteadyGeometry). The pattern state is the lowest-tilt
+/// state rolling on the lower rim (b > 0); the others are further rolling
+/// states or the standing ones (b < 0, nearly on end).
+SteadySolution steadyAtPrecession(const Cylinder& c, double precession, CentreOrbit orbit, double g = k::gravity);
+/// The same with the centre still (rho = 0, physics.md section 3).
 SteadySolution steadyAtPrecession(const Cylinder& c, double precession, double g = k::gravity);
 
-/// The steady state at tilt `tilt` (rad, 0..pi/2), if any: the precession
-/// follows in closed form. Throws std::invalid_argument outside 0..pi/2.
+/// The steady state at tilt `tilt` (rad, 0..pi/2) with the centre on
+/// `orbit`, if any: the precession follows in closed form. Throws
+/// std::invalid_argument outside 0..pi/2 or for a non-finite orbit.
+SteadySolution steadyAtTilt(const Cylinder& c, double tilt, CentreOrbit orbit, double g = k::gravity);
+/// The same with the centre still (rho = 0).
 SteadySolution steadyAtTilt(const Cylinder& c, double tilt, double g = k::gravity);
 
 /// The pattern state alone at one precession (rad/s): exactly the pattern()
@@ -87,6 +125,7 @@ struct PatternResult {
   bool found = false;
   SteadySpin spin;
 };
+PatternResult patternAtPrecession(const Cylinder& c, double precession, CentreOrbit orbit, double g = k::gravity);
 PatternResult patternAtPrecession(const Cylinder& c, double precession, double g = k::gravity);
 
 /// Omega_min = sqrt(m g R / I_a) = sqrt(2 g R / (R^2 + r^2)), rad/s: the
@@ -100,7 +139,7 @@ double minSteadyPrecession(const Cylinder& c, double g = k::gravity);
 /// steadily on its rim only below minSteadyPrecession().
 bool squatBody(const Cylinder& c);
 
-/// The tilts that bound the branches, rad: the rolling (pattern) branch lies
+/// The tilts that bound the branches with the centre still, rad: the rolling (pattern) branch lies
 /// in [0, patternMax), the standing branch in (standingMin, pi/2); between
 /// them the gravity and gyroscopic torques cannot balance.
 /// patternMax = min(atan(L/D), atan(I_a L / (I_t D))), standingMin the max.
@@ -120,10 +159,11 @@ double patternDriftDegPerRev(double spotsPerRev, int spots);
 /// Throws std::invalid_argument unless 0 < L, 0 < R, 0 <= r < R, all finite.
 void checkSteadyGeometry(const Cylinder& c);
 
-/// The exact prescribed steady motion. The centre stays at (centre.x,
-/// centre.y, spin.centreHeight); the raised axis (from the centre towards
-/// the raised end: body +z for end A, body -z for end B) stands at
-/// spin.tilt above the horizontal with azimuth azimuth0 + Omega t; the body
+/// The exact prescribed steady motion. The raised axis (from the centre
+/// towards the raised end: body +z for end A, body -z for end B) stands at
+/// spin.tilt above the horizontal with azimuth azimuth0 + Omega t, its
+/// horizontal unit e(t); the centre is at (centre.x, centre.y,
+/// spin.centreHeight) + spin.orbit e(t), still when the orbit is 0; the body
 /// turns about its own axis by roll0 + relativeSpin t. The angular velocity
 /// is w = Omega z + relativeSpin a_raised, the convention of axisMotion()
 /// in core/kinematics.cpp.
@@ -131,13 +171,15 @@ struct SteadyMotion {
   Cylinder body;
   SteadySpin spin;
   End raised = End::A;
-  Vec3 centre = Vec3::Zero();  ///< only x and y are used, m
+  Vec3 centre = Vec3::Zero();  ///< the spin axis O: only x and y are used, m
   double azimuth0 = 0;         ///< azimuth of the raised axis at t = 0, rad
   double roll0 = 0;            ///< roll about the axis at t = 0, rad
   /// Pose at time t (s).
   Pose poseAt(double t) const;
   /// Angular velocity in the lab frame at time t (s), rad/s.
   Vec3 spinAt(double t) const;
+  /// Velocity of the centre at time t (s), m/s: Omega rho (z x e).
+  Vec3 velocityAt(double t) const;
   /// Unit raised axis at time t.
   Vec3 raisedAxisAt(double t) const;
 };

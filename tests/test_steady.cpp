@@ -487,26 +487,6 @@ TEST_CASE("the spots of the prescribed motion drift as reported", "[steady]") {
   }
 }
 
-TEST_CASE("the torque balance holds on the prescribed motion", "[steady]") {
-  // Independent of the closed form: along SteadyMotion, dH/dt (central
-  // difference of H = R I R^T w) equals the torque of the normal force m g z
-  // at the contact about the centre (no horizontal force: the centre is
-  // fixed). Difference error (w h)^2 ~ 1e-10 with h = 1e-6 s.
-  for (const auto& [c, s] : sampleStates()) {
-    const SteadyMotion m = motionOf(c, s, End::B);
-    const MassProperties mp = massProperties(c);
-    const auto H = [&](double t) {
-      const Mat3 R = m.poseAt(t).worldFromBody.toRotationMatrix();
-      return Vec3(R * mp.diagonal().asDiagonal() * R.transpose() * m.spinAt(t));
-    };
-    const double t = 0.07, h = 1e-6;
-    const Vec3 dH = (H(t + h) - H(t - h)) / (2 * h);
-    const RimPoints r = rimPoints(m, t);
-    const Vec3 torque = (r.lowest - m.poseAt(t).position).cross(Vec3(0, 0, c.mass * k::gravity));
-    CHECK((dH - torque).norm() < 1e-6 * (torque.norm() + c.mass * k::gravity * c.outerRadius));
-  }
-}
-
 TEST_CASE("mass cancels", "[steady]") {
   const SteadySolution a = steadyAtPrecession(tube(64, 16, 1, 0.001), 9 * revS);
   const SteadySolution b = steadyAtPrecession(tube(64, 16, 1, 5.0), 9 * revS);
@@ -528,4 +508,231 @@ TEST_CASE("bad input is refused", "[steady]") {
   CHECK_FALSE(steady_input::precession.contains(-0.1));
   CHECK_FALSE(steady_input::tilt.contains(90.5));
   CHECK(steady_input::tilt.allowedText() == "allowed 0 to 90 deg");
+}
+
+// ---- the centre orbit -------------------------------------------------------
+
+TEST_CASE("with the centre still the solver gives the previous solver's answers to the bit", "[steady]") {
+  // Source: the centre-still solver as it was before the orbit was added
+  // (main at 2156af2), printed as hexadecimal floats: every tilt, N,
+  // contact radius and ceiling of each branch, and the precession and N at
+  // three tilts. The orbit enters the equations as exact zeros when rho = 0,
+  // so nothing may move by even one unit in the last place.
+  struct Branch {
+    double L, D, wall, revPerS;
+    int pattern;
+    double tilt, N, contactRadius, ceiling;
+  };
+  const Branch branches[] = {
+      {64, 16, 1, 6.5, 1, 0x1.cfcf0c8242969p-4, 0x1.ee420b61b2ddep+1, 0x1.fa1ec3f98c26dp-6, 0x1.7af257f0b883p-6},
+      {64, 16, 1, 6.5, 0, 0x1.7bbd99dbf3023p+0, -0x1.4b34d6ac4c68ep-1, 0x1.5327c54c14e64p-8, 0x1.0add8cc2d89c1p-4},
+      {64, 16, 1, 9, 1, 0x1.5d1369f1978dfp-2, 0x1.b7be4447d72a9p+1, 0x1.c24c0c934aec2p-6, 0x1.2ad09b7247f5dp-5},
+      {64, 16, 1, 9, 0, 0x1.8455808ba796dp+0, -0x1.90fde4ce68bdcp-1, 0x1.9a9d965463104p-8, 0x1.094ad235fa98fp-4},
+      {64, 16, 1, 25, 1, 0x1.0c23a4dd9c665p-1, 0x1.7b5d49ba27c21p+1, 0x1.84781a583918ap-6, 0x1.77b2dc565f2e9p-5},
+      {64, 16, 1, 25, 0, 0x1.8ffbef70ad966p+0, -0x1.eedd4a5e07242p-1, 0x1.fabdbccac7d31p-8, 0x1.06aebf7ebe4fap-4},
+      {131, 32, 1.6, 6.5, 1, 0x1.6c935fc04f2f1p-2, 0x1.be8600f32d2fap+1, 0x1.c93d719cda4d8p-5, 0x1.35e120473f8a2p-4},
+      {131, 32, 1.6, 6.5, 0, 0x1.855634d692506p+0, -0x1.96b5df4c74544p-1, 0x1.a078b3817d43ep-7, 0x1.0f39bc018f635p-3},
+      {131, 32, 1.6, 9, 1, 0x1.cf6652407fc6fp-2, 0x1.9f493e0778969p+1, 0x1.a940c29702a68p-5, 0x1.607f0846c54d1p-4},
+      {131, 32, 1.6, 9, 0, 0x1.8ad1a5ef054f3p+0, -0x1.c3fd9aa578ae7p-1, 0x1.ced6a27431d99p-7, 0x1.0e0c704ad10d1p-3},
+      {131, 32, 1.6, 25, 1, 0x1.137909d14c2f4p-1, 0x1.806009352227bp+1, 0x1.8999a3074dfbap-5, 0x1.838566892993cp-4},
+      {131, 32, 1.6, 25, 0, 0x1.9115f039c2f84p+0, -0x1.f77ef0577a374p-1, 0x1.01ca356c46c44p-6, 0x1.0c8d333996821p-3},
+      {8, 20, 2, 25, 0, 0x1.47c2feae8ed8p-1, -0x1.1b28e8895732ep-2, 0x1.6a71cd7c98931p-9, 0x1.551785bf48672p-6},
+      {8, 20, 2, 25, 0, 0x1.7b7ecbbfaf10bp+0, -0x1.ebebfbf6e1f1dp-1, 0x1.3ad4784c15b98p-7, 0x1.3ef96a47ae2dep-7},
+      {40, 10, 5, 6.5, 0, 0x1.74347b8f0d343p+0, -0x1.0db3781b26388p-1, 0x1.5937a3f9ca85cp-9, 0x1.4eff38604c84cp-5},
+      {40, 10, 5, 9, 0, 0x1.7e32cda2dd7a7p+0, -0x1.5f3521363dcap-1, 0x1.c18bafa196c52p-9, 0x1.4d0ec193938dbp-5},
+      {40, 10, 5, 25, 1, 0x1.2d77620c88d92p-2, 0x1.c4d49cb91d209p+1, 0x1.21cfc076790aap-6, 0x1.5af45614031fep-6},
+      {40, 10, 5, 25, 0, 0x1.8ea8db1303e65p+0, -0x1.e43d65a5debd9p-1, 0x1.35e9daa798cb4p-8, 0x1.48c22ef777f1bp-5},
+  };
+  std::vector<SteadySpin> found;
+  for (const Branch& b : branches) {
+    CAPTURE(b.L, b.D, b.revPerS, b.tilt);
+    const Cylinder c = tube(b.L, b.D, b.wall);
+    // Every branch at this input appears in the table in order; find this one.
+    const SteadySolution still = steadyAtPrecession(c, b.revPerS * revS);
+    const SteadySolution zero = steadyAtPrecession(c, b.revPerS * revS, CentreOrbit{0.0});
+    bool seen = false;
+    for (std::size_t i = 0; i < still.branches.size(); ++i) {
+      const SteadySpin& s = still.branches[i];
+      if (s.tilt != b.tilt) continue;
+      seen = true;
+      CHECK(int(s.pattern) == b.pattern);
+      CHECK(s.spotsPerRev == b.N);
+      CHECK(s.contactRadius == b.contactRadius);
+      CHECK(s.ceilingHeight == b.ceiling);
+      // The new figures of a still centre.
+      CHECK(s.orbit == 0);
+      CHECK(s.frictionNeeded == 0);
+      CHECK(s.topSpeed == 0);
+      CHECK(s.ringRadius == s.contactRadius);
+      REQUIRE(zero.branches.size() == still.branches.size());
+      CHECK(zero.branches[i].tilt == s.tilt);
+    }
+    CHECK(seen);
+  }
+  struct ByTilt {
+    double L, D, wall, tiltDeg, precession, N;
+  };
+  for (const ByTilt& t : {ByTilt{64, 16, 1, 3, 0x1.35edb46d778b2p+5, 0x1.f8996cfef26f9p+1},
+                          ByTilt{64, 16, 1, 17, 0x1.9e4b46d3e330fp+5, 0x1.c4345748b6066p+1},
+                          ByTilt{64, 16, 1, 86, 0x1.7ed11b9f242dp+5, -0x1.6fe43babbd764p-1},
+                          ByTilt{131, 32, 1.6, 17, 0x1.21232dae64a8dp+5, 0x1.cfae1bf224789p+1},
+                          ByTilt{8, 20, 2, 17, 0x1.6c6cebc658b76p+4, 0x1.7141556b032ep-4},
+                          ByTilt{40, 10, 5, 86, 0x1.e7f737129778ap+5, -0x1.6fe43babbd764p-1}}) {
+    CAPTURE(t.L, t.tiltDeg);
+    const SteadySolution s = steadyAtTilt(tube(t.L, t.D, t.wall), t.tiltDeg * k::degree);
+    REQUIRE(s.branches.size() == 1);
+    CHECK(s.branches[0].precession == t.precession);
+    CHECK(s.branches[0].spotsPerRev == t.N);
+  }
+}
+
+namespace {
+
+// The torque balance with the centre on an orbit rho (our derivation,
+// core/steady.cpp), written out again here per unit mass:
+// Omega^2 [cos a (I_a ((L/D) cos a - rho/R) - I_t sin a) - rho h] - g b.
+double orbitBalance(const Cylinder& c, double omega, double a, double rho, double g) {
+  Cylinder unit = c;
+  unit.mass = 1;
+  const MassProperties p = massProperties(unit);
+  const double L = c.length, R = c.outerRadius;
+  const double b = L / 2 * std::cos(a) - R * std::sin(a), h = L / 2 * std::sin(a) + R * std::cos(a);
+  return omega * omega *
+             (std::cos(a) * (p.axial * (L / (2 * R) * std::cos(a) - rho / R) - p.transverse * std::sin(a)) - rho * h) -
+         g * b;
+}
+
+// States on orbits of either sign, pattern and standing, on several bodies.
+std::vector<std::pair<Cylinder, SteadySpin>> orbitingStates() {
+  std::vector<std::pair<Cylinder, SteadySpin>> out;
+  for (const Cylinder& c : {tube(64, 16, 1), tube(131, 32, 1.6), rod(40, 10), tube(8, 20, 2)})
+    for (double rhoMm : {-5.0, -1.5, 2.0, 4.0})
+      for (double f : {4.5, 6.5, 9.0, 25.0})
+        for (const SteadySpin& s : steadyAtPrecession(c, f * revS, CentreOrbit{rhoMm * mm}).branches)
+          out.emplace_back(c, s);
+  return out;
+}
+
+}  // namespace
+
+TEST_CASE("on an orbit every root of the torque balance is found and N follows the rolling condition", "[steady]") {
+  // Our derivation (core/steady.cpp): the roots are the sign changes of the
+  // balance on a 100001-point grid over 0..90 deg (no pair of roots is that
+  // close in these cases); N = (b - rho)/R; the pattern state is the
+  // lowest-tilt root with the contact circle's offset b > 0.
+  for (const Cylinder& c : {tube(64, 16, 1), tube(131, 32, 1.6), rod(40, 10), tube(8, 20, 2)})
+    for (double rhoMm : {-8.0, -3.5, -0.5, 0.5, 3.0, 10.0})
+      for (double f : {3.0, 4.5, 6.5, 9.0, 25.0}) {
+        CAPTURE(c.length, rhoMm, f);
+        const double w = f * revS, rho = rhoMm * mm;
+        const SteadySolution sol = steadyAtPrecession(c, w, CentreOrbit{rho});
+        int changes = 0;
+        constexpr int n = 100000;
+        double prev = orbitBalance(c, w, 0, rho, k::gravity);
+        for (int i = 1; i <= n; ++i) {
+          const double v = orbitBalance(c, w, (k::pi / 2) * i / n, rho, k::gravity);
+          if ((v > 0) != (prev > 0)) ++changes;
+          prev = v;
+        }
+        CHECK(int(sol.branches.size()) == changes);
+        const SteadySpin* lowestRolling = nullptr;
+        for (const SteadySpin& s : sol.branches) {
+          const double b = c.length / 2 * std::cos(s.tilt) - c.outerRadius * std::sin(s.tilt);
+          CHECK(std::abs(orbitBalance(c, w, s.tilt, rho, k::gravity)) < 1e-12 * w * w * c.length * c.length);
+          CHECK(s.spotsPerRev == Approx((b - rho) / c.outerRadius).margin(1e-12));
+          CHECK(s.relativeSpin == Approx(s.spotsPerRev * w).epsilon(1e-14));
+          CHECK(s.orbit == rho);
+          CHECK(s.frictionNeeded == Approx(w * w * std::abs(rho) / k::gravity).epsilon(1e-14));
+          CHECK(s.topSpeed == Approx(2 * w * std::abs(rho)).epsilon(1e-14));
+          CHECK(s.contactRadius == Approx(std::abs(b - rho)).margin(1e-15));
+          CHECK(s.ringRadius == Approx(std::abs(b + rho)).margin(1e-15));
+          if (b > 0 && !lowestRolling) lowestRolling = &s;
+          // By tilt the closed form gives the same precession back.
+          const SteadySolution back = steadyAtTilt(c, s.tilt, CentreOrbit{rho});
+          REQUIRE(back.branches.size() == 1);
+          CHECK(back.branches[0].precession == Approx(w).epsilon(1e-9));
+          CHECK(back.branches[0].pattern == (b > 0));
+        }
+        CHECK(sol.pattern() == lowestRolling);
+        CHECK((sol.pattern() == nullptr) == !sol.reason.empty());
+        if (!sol.pattern()) CHECK(sol.reason.find("orbiting") != std::string::npos);
+      }
+}
+
+TEST_CASE("prescribed orbiting motion: contact at rest, top moving at 2 Omega rho along the ring", "[steady]") {
+  // Our derivation (core/steady.cpp): c = O + rho e, w = Omega z + psi_dot a.
+  // Checked on the pose alone: the lowest rim point's material velocity
+  // v_c + w x (P - c) is zero (rolling), the highest one's is 2 Omega rho
+  // across e; the centre circles O at |rho|, the contact at |b - rho| and the
+  // top at |b + rho| (the ring); velocityAt is the centre's rate of change.
+  const double eps = std::numeric_limits<double>::epsilon();
+  for (const auto& [c, s] : orbitingStates()) {
+    for (End raised : {End::A, End::B}) {
+      CAPTURE(s.tilt, s.precession, s.orbit, int(raised));
+      const SteadyMotion m = motionOf(c, s, raised);
+      const Vec3 O(0.012, -0.034, 0);
+      const double speedScale = s.precession * c.length + std::abs(s.relativeSpin) * c.outerRadius;
+      for (double t : {0.0, 0.031, 0.5}) {
+        const Pose pose = m.poseAt(t);
+        const Vec3 w = m.spinAt(t), v = m.velocityAt(t);
+        const Vec3 a = m.raisedAxisAt(t);
+        const Vec3 e = Vec3(a.x(), a.y(), 0).normalized(), across = Vec3::UnitZ().cross(e);
+        const Vec3 fromAxis = pose.position - O;
+        CHECK(std::hypot(fromAxis.x(), fromAxis.y()) == Approx(std::abs(s.orbit)).margin(1e-15));
+        CHECK(fromAxis.dot(e) == Approx(s.orbit).margin(1e-15));
+        const RimPoints r = rimPoints(m, t);
+        CHECK((v + w.cross(r.lowest - pose.position)).norm() < 1e-13 * speedScale);
+        CHECK((v + w.cross(r.highest - pose.position) - 2 * s.precession * s.orbit * across).norm() <
+              1e-13 * speedScale);
+        CHECK(std::hypot(r.lowest.x() - O.x(), r.lowest.y() - O.y()) == Approx(s.contactRadius).margin(1e-14));
+        CHECK(std::hypot(r.highest.x() - O.x(), r.highest.y() - O.y()) == Approx(s.ringRadius).margin(1e-14));
+        CHECK(r.highest.z() == Approx(s.ceilingHeight).epsilon(1e-13));
+        CHECK(std::abs(r.lowest.z()) < 8 * eps * (c.length + c.outerRadius / std::cos(s.tilt)));
+        // velocityAt against a central difference of the position (error
+        // (Omega h)^2 ~ 1e-10 of the speed with h = 1e-6 s).
+        const double h = 1e-6;
+        const Vec3 vFd = (m.poseAt(t + h).position - m.poseAt(t - h).position) / (2 * h);
+        CHECK((vFd - v).norm() < 1e-8 * (v.norm() + 1e-9));
+      }
+    }
+  }
+}
+
+TEST_CASE("the torque balance holds on the prescribed motion, centre still or orbiting", "[steady]") {
+  // Independent of the closed form: along SteadyMotion, dH/dt (central
+  // difference of H = R I R^T w) equals the torque about the centre of the
+  // contact force: the weight's reaction m g z and the friction that
+  // accelerates the centre, m dv/dt (central difference of velocityAt; none
+  // with the centre still, physics.md section 3). Its horizontal part over
+  // the weight is the friction the solver says the orbit needs (our
+  // derivation). Difference errors (w h)^2 ~ 1e-10 with h = 1e-6 s.
+  std::vector<std::pair<Cylinder, SteadySpin>> states = sampleStates();
+  for (const auto& state : orbitingStates()) states.push_back(state);
+  for (const auto& [c, s] : states) {
+    CAPTURE(s.tilt, s.precession, s.orbit);
+    const SteadyMotion m = motionOf(c, s, End::B);
+    const MassProperties mp = massProperties(c);
+    const auto H = [&](double t) {
+      const Mat3 R = m.poseAt(t).worldFromBody.toRotationMatrix();
+      return Vec3(R * mp.diagonal().asDiagonal() * R.transpose() * m.spinAt(t));
+    };
+    const double t = 0.07, h = 1e-6;
+    const Vec3 dH = (H(t + h) - H(t - h)) / (2 * h);
+    const Vec3 friction = c.mass * (m.velocityAt(t + h) - m.velocityAt(t - h)) / (2 * h);
+    CHECK(std::abs(friction.z()) < 1e-9 * c.mass * k::gravity);
+    CHECK(std::hypot(friction.x(), friction.y()) / (c.mass * k::gravity) ==
+          Approx(s.frictionNeeded).margin(1e-8 * (1 + s.frictionNeeded)));
+    const RimPoints r = rimPoints(m, t);
+    const Vec3 torque = (r.lowest - m.poseAt(t).position).cross(Vec3(0, 0, c.mass * k::gravity) + friction);
+    CHECK((dH - torque).norm() < 1e-6 * (torque.norm() + c.mass * k::gravity * c.outerRadius));
+  }
+}
+
+TEST_CASE("a bad orbit is refused", "[steady]") {
+  const Cylinder c = tube(64, 16, 1);
+  CHECK_THROWS_AS(steadyAtPrecession(c, 40, CentreOrbit{std::nan("")}), std::invalid_argument);
+  CHECK_THROWS_AS(steadyAtTilt(c, 0.2, CentreOrbit{std::numeric_limits<double>::infinity()}), std::invalid_argument);
+  CHECK(steady_input::orbit.contains(-1000));
+  CHECK_FALSE(steady_input::orbit.contains(1000.5));
+  CHECK(steady_input::orbit.allowedText() == "allowed -1000 to 1000 mm");
 }
