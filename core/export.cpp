@@ -108,6 +108,8 @@ nlohmann::json patternJson(const std::vector<PatternWindow>& windows) {
     j["stop_count"] = w.stopCount;
     j["mean_tilt_deg"] = w.meanTilt * degPerRad;
     j["mean_precession_rev_s"] = w.meanPrecession / k::twoPi;
+    j["centre_orbit_mm"] = w.centreOrbit ? json(*w.centreOrbit * 1e3) : json(nullptr);
+    j["centre_orbit_across_mm"] = w.centreOrbitAcross ? json(*w.centreOrbitAcross * 1e3) : json(nullptr);
     list.push_back(j);
   }
   return list;
@@ -132,6 +134,7 @@ std::string patternSentence(const PatternWindow& w) {
         << " deg/s, each visited every " << w.revsPerVisit << " rev";
       break;
   }
+  if (w.centreOrbit) o << "; centre orbit " << fmt(*w.centreOrbit * 1e3, 3) << " mm";
   return o.str();
 }
 

@@ -191,6 +191,46 @@ WindowMeans windowMeans(const Trajectory& tr, double t0, double t1) {
   return m;
 }
 
+// The centre's orbit over [t0, t1] (PatternWindow::centreOrbit): linear
+// least squares for (O_x, O_y, V_x, V_y, rho, sigma) in
+// c = O + V (t - t_mid) + rho e + sigma (z x e), e the horizontal unit of
+// the visible end's axis. The fit needs e to turn: it is made only when the
+// axis' azimuth sweeps at least a whole turn over the window.
+struct OrbitFit {
+  double along = 0, across = 0;  // rho, sigma, m
+};
+std::optional<OrbitFit> centreOrbitFit(const Trajectory& tr, double t0, double t1, End visible) {
+  using Mat6 = Eigen::Matrix<double, 6, 6>;
+  using Vec6 = Eigen::Matrix<double, 6, 1>;
+  Mat6 normal = Mat6::Zero();
+  Vec6 rhs = Vec6::Zero();
+  const double mid = 0.5 * (t0 + t1);
+  double swept = 0, previous = 0;
+  bool first = true;
+  for (std::size_t i = tr.indexAt(t0); i < tr.samples.size() && tr.samples[i].t <= t1; ++i) {
+    const Sample& s = tr.samples[i];
+    if (s.t < t0) continue;
+    const Vec3 axis = endSign(visible) * (s.orientation * Vec3::UnitZ());
+    const double horizontal = std::hypot(axis.x(), axis.y());
+    if (!(horizontal > 1e-9)) continue;  // axis upright: no e
+    const double ex = axis.x() / horizontal, ey = axis.y() / horizontal;
+    const double azimuth = std::atan2(ey, ex);
+    if (!first) swept += std::remainder(azimuth - previous, k::twoPi);
+    previous = azimuth;
+    first = false;
+    const double dt = s.t - mid;
+    Vec6 rowX, rowY;
+    rowX << 1, 0, dt, 0, ex, -ey;
+    rowY << 0, 1, 0, dt, ey, ex;
+    normal += rowX * rowX.transpose() + rowY * rowY.transpose();
+    rhs += rowX * s.position.x() + rowY * s.position.y();
+  }
+  if (std::abs(swept) < k::twoPi) return std::nullopt;
+  const Vec6 x = normal.ldlt().solve(rhs);
+  if (!x.allFinite()) return std::nullopt;
+  return OrbitFit{x(4), x(5)};
+}
+
 // A stop as seen about the window's centre.
 struct SeenStop {
   double time = 0;
@@ -348,6 +388,10 @@ PatternWindow patternWindow(const Trajectory& tr, const std::vector<MarkedPoint>
   w.meanTilt = means.tilt;
   w.meanPrecession = means.precession;
   if (!w.visibleEnd) return w;
+  if (const std::optional<OrbitFit> orbit = centreOrbitFit(tr, t0, t1, *w.visibleEnd)) {
+    w.centreOrbit = orbit->along;
+    w.centreOrbitAcross = orbit->across;
+  }
   const auto seqs = seenStops(stops, points.size(), *w.visibleEnd, means.centre, t0, t1);
   std::size_t longest = 0;
   for (const auto& seq : seqs) {

@@ -117,6 +117,19 @@ struct PatternWindow {
   std::optional<double> spotsPerRev;
   double meanTilt = 0;                ///< rad
   double meanPrecession = 0;          ///< rad/s
+  /// The centre's orbit about the spin axis (CentreOrbit, core/steady.hpp):
+  /// the signed mean of (c - O).e over the window, m, + towards the raised
+  /// end. O is the ring's centre, the vertical axis the raised end's top
+  /// circles, and e the horizontal unit of the visible end's axis. O is
+  /// fitted with rho by least squares, c = O + V (t - t_mid) + rho e +
+  /// sigma (z x e) on every sample (O may wander at a steady velocity V), so
+  /// rho is that mean exactly. None without a visible end or when the axis
+  /// turns less than once in the window (O and rho are then not separable).
+  std::optional<double> centreOrbit;
+  /// sigma, the centre's mean offset across e (along z x e), m: the part of
+  /// the orbit a steady spin does not have; a measure of how far the window
+  /// is from one (none when centreOrbit is none).
+  std::optional<double> centreOrbitAcross;
   PatternKind kind = PatternKind::None;
 };
 

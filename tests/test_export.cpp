@@ -42,6 +42,8 @@ PatternAnalysis smallAnalysis() {
   w.spotsPerRev = 1.99;
   w.meanTilt = 1.5 * k::degree;
   w.meanPrecession = 6 * k::twoPi;
+  w.centreOrbit = -0.0035;
+  w.centreOrbitAcross = 0.0001;
   w.kind = PatternKind::Creeping;
   PatternWindow none;
   none.start = 0.5;
@@ -85,17 +87,22 @@ TEST_CASE("summary pattern windows carry the issue's keys in display units", "[e
   CHECK(w["spot_spread_deg"].get<double>() == Approx(1.5));
   CHECK(w["mean_tilt_deg"].get<double>() == Approx(1.5));
   CHECK(w["mean_precession_rev_s"].get<double>() == Approx(6));
+  CHECK(w["centre_orbit_mm"].get<double>() == Approx(-3.5));
+  CHECK(w["centre_orbit_across_mm"].get<double>() == Approx(0.1));
   // A window with no raised end: nulls, empty lists, kind none.
   CHECK(j[1]["visible_end"].is_null());
   CHECK(j[1]["spots_per_rev"].is_null());
   CHECK(j[1]["spot_azimuths_deg"].empty());
   CHECK(j[1]["kind"] == "none");
   CHECK(j[1]["n_ratio"].is_null());
+  CHECK(j[1]["centre_orbit_mm"].is_null());
+  CHECK(j[1]["centre_orbit_across_mm"].is_null());
 }
 
 TEST_CASE("the pattern sentence says how many spots, how they move and how often each is visited", "[export]") {
   const auto a = smallAnalysis();
   CHECK(patternSentence(a.windows[0]) ==
-        "0-1 s: end A seen from above, N = 1.99 (near 2/1), 2 spots creeping at -2 deg/s, each visited every 1 rev");
+        "0-1 s: end A seen from above, N = 1.99 (near 2/1), 2 spots creeping at -2 deg/s, each visited every 1 rev; "
+        "centre orbit -3.5 mm");
   CHECK(patternSentence(a.windows[1]) == "0.5-1.5 s: no end raised");
 }

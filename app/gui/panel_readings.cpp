@@ -58,15 +58,20 @@ void forecastRows(const Session& s, double t) {
   row("visible end", w->visibleEnd ? std::string(endName(*w->visibleEnd)) : "none raised");
   row("pattern drift", orDash(!w->spots.empty(), fixed(w->patternDrift / k::degree, 2) + " deg/s"));
   row("stops in window", std::to_string(w->stopCount) + (w->revsPerVisit > 0 ? ", each spot every " + std::to_string(w->revsPerVisit) + " rev" : ""));
+  row("centre orbit", orDash(w->centreOrbit.has_value(), fixed(w->centreOrbit.value_or(0) * 1e3, 2) + " mm"));
 }
 
 // The solver's steady spin of this geometry at the precession now (or, before
-// the body precesses, at the launch's vertical spin).
-void steadyRows(const Session& s, const AxisMotion& m) {
+// the body precesses, at the launch's vertical spin), with the centre orbit
+// the forecast measured in the window now (the centre still without one).
+void steadyRows(const Session& s, const AxisMotion& m, double t) {
   const Cylinder cyl = cylinderOf(s.scenario().body);
   const double precession = m.precessing ? std::abs(m.precession) : s.scenario().launch.revolution;
   row("at precession", fixed(precession / k::twoPi, 3) + " rev/s" + (m.precessing ? "" : " (launch spin)"));
-  const SteadySolution sol = steadyAtPrecession(cyl, precession);
+  const PatternWindow* w = s.patternAt(t);
+  const double orbit = w && w->centreOrbit ? *w->centreOrbit : 0.0;
+  row("with centre orbit", orbit == 0 ? std::string("0 (centre still)") : fixed(orbit * 1e3, 2) + " mm (forecast window)");
+  const SteadySolution sol = steadyAtPrecession(cyl, precession, CentreOrbit{orbit});
   row("end stays up above", fixed(sol.minPrecession / k::twoPi, 3) + " rev/s");
   const auto pattern = std::find_if(sol.branches.begin(), sol.branches.end(), [](const SteadySpin& b) { return b.pattern; });
   if (pattern == sol.branches.end()) {
@@ -79,6 +84,7 @@ void steadyRows(const Session& s, const AxisMotion& m) {
     row("steady drift", fixed(pattern->driftDegPerRev, 2) + " deg/rev, " + fixed(pattern->driftDegPerSecond, 1) + " deg/s");
   row("ceiling height", fixed(pattern->ceilingHeight * 1e3, 2) + " mm");
   row("contact circle radius", fixed(pattern->contactRadius * 1e3, 2) + " mm");
+  if (orbit != 0) row("friction needed", fixed(pattern->frictionNeeded, 3));
 }
 
 void adviceRows(const LengthAdvice& a, const char* label) {
@@ -130,7 +136,7 @@ void drawReadings(GuiContext& c) {
   }
   if (ImGui::CollapsingHeader("Steady spin", ImGuiTreeNodeFlags_DefaultOpen) &&
       ImGui::BeginTable("steady", 2, ImGuiTableFlags_RowBg | ImGuiTableFlags_SizingStretchProp)) {
-    steadyRows(s, m);
+    steadyRows(s, m, now.t);
     ImGui::EndTable();
   }
   if (ImGui::CollapsingHeader("Length advisor")) advisorSection(c);
