@@ -20,6 +20,7 @@ struct AdviseArgs {
   int spots = 0;
   std::string precession;
   double maxDriftDegS = 0;
+  double orbitMm = 0;
   bool json = false;
   CLI::Option* precessionOpt = nullptr;
   CLI::Option* maxDriftOpt = nullptr;
@@ -111,14 +112,21 @@ int runAdvise(const AdviseArgs& a) {
   const bool defaultLimit = a.maxDriftOpt->count() == 0;
   const double limit = defaultLimit ? defaultDriftLimitDegPerSecond(n)
                                     : checkedFlag(advise_input::driftLimit, a.maxDriftDegS, "--max-drift-deg-s");
+  const CentreOrbit orbit{checkedFlag(steady_input::orbit, a.orbitMm, "--orbit-mm") / mm};
+  const std::string orbitNote =
+      orbit.rho == 0 ? std::string()
+                     : "  (the centre expected to circle the spin axis " + fmt(a.orbitMm, 5) +
+                           " mm from it at every precession, + towards the raised end)\n";
 
   if (reverse) {
     const Scenario s = loadBodyScenario(a.body);
     const Cylinder c = cylinderOf(s.body);
-    const PrecessionWindow w = precessionWindow(c, n, limit, range.from * k::twoPi, range.to * k::twoPi);
+    const PrecessionWindow w =
+        precessionWindow(c, n, limit, range.from * k::twoPi, range.to * k::twoPi, k::gravity, orbit);
     if (a.json) {
       nlohmann::json j = windowJson(w);
       j["mode"] = "window";
+      j["orbit_mm"] = a.orbitMm;
       j["solution"] = w.bands.empty() ? "none" : "window";
       j["body"] = sectionJson(s.body, c);
       j["body"]["length_mm"] = c.length * mm;
@@ -129,8 +137,8 @@ int runAdvise(const AdviseArgs& a) {
     std::cout << "precession window of a " << bodyDescription(s.body) << " for " << n << " spots\n"
               << "  searched " << fmt(range.from, 5) << " to " << fmt(range.to, 5) << " rev/s; the end stays up above "
               << fmt(revS(minSteadyPrecession(c)), 5) << " rev/s\n"
-              << "  drift of the " << n << "-spot pattern under " << limitText(w, defaultLimit) << ": " << bandsText(w)
-              << "\n";
+              << orbitNote << "  drift of the " << n << "-spot pattern under " << limitText(w, defaultLimit) << ": "
+              << bandsText(w) << "\n";
     if (w.best.pattern)
       std::cout << "  steadiest at " << fmt(revS(w.best.precession), 5) << " rev/s: " << pointText(w.best) << "\n";
     return exitOk;
@@ -149,12 +157,12 @@ int runAdvise(const AdviseArgs& a) {
   });
   const Cylinder section = cylinderOf(s.body);
   const double D = 2 * section.outerRadius;
-  const DimensionAdvice adv = adviseLength(section, n, range.from * k::twoPi, range.to * k::twoPi);
+  const DimensionAdvice adv = adviseLength(section, n, range.from * k::twoPi, range.to * k::twoPi, k::gravity, orbit);
   PrecessionWindow w;
   if (adv.best.found) {
     Cylinder c = section;
     c.length = adv.best.length;
-    w = precessionWindow(c, n, limit, 0, advise_input::windowSearchTopRevS * k::twoPi);
+    w = precessionWindow(c, n, limit, 0, advise_input::windowSearchTopRevS * k::twoPi, k::gravity, orbit);
   }
   if (a.json) {
     nlohmann::json j;
@@ -164,6 +172,7 @@ int runAdvise(const AdviseArgs& a) {
     j["body"] = sectionJson(s.body, section);
     j["spots"] = n;
     j["precession_rev_s"] = {{"from", range.from}, {"to", range.to}};
+    j["orbit_mm"] = a.orbitMm;
     j["min_precession_rev_s"] = revS(adv.minPrecession);
     j["drift_limit_deg_s"] = limit;
     j["recommended"] = adviceJson(adv.best, D);
@@ -176,7 +185,8 @@ int runAdvise(const AdviseArgs& a) {
   std::cout << "length advice for " << n << " spots on a " << bodyDescription(s.body, false) << ", over "
             << fmt(range.from, 5) << " to " << fmt(range.to, 5) << " rev/s\n"
             << "  (the end stays up above " << fmt(revS(adv.minPrecession), 5)
-            << " rev/s; drift of the n-spot pattern, + in the direction of precession)\n";
+            << " rev/s; drift of the n-spot pattern, + in the direction of precession)\n"
+            << orbitNote;
   if (!adv.fewer.found && !adv.best.found && !adv.more.found && adv.fewer.reason == adv.best.reason &&
       adv.more.reason == adv.best.reason) {
     std::cout << "  no length for " << n - 1 << ", " << n << " or " << n + 1 << " spots: " << adv.best.reason << "\n";
@@ -219,6 +229,10 @@ void addAdviseCommand(CLI::App& app, Commands& commands) {
   args->maxDriftOpt = sub->add_option("--max-drift-deg-s", args->maxDriftDegS,
                                       "drift limit, deg/s (" + advise_input::driftLimit.allowedText() +
                                           "; default one spot spacing, 360/n deg, in 10 s)");
+  sub->add_option("--orbit-mm", args->orbitMm,
+                  "the centre orbit a designer expects, mm, signed: + towards the raised end (" +
+                      steady_input::orbit.allowedText() +
+                      "; default 0, the centre still); the same at every precession, as `steady --orbit-mm`");
   sub->add_flag("--json", args->json, "print one JSON object instead of text");
   commands.add(sub, [args] { return runAdvise(*args); });
 }

@@ -18,6 +18,7 @@ struct SteadyArgs {
   BodyFlags body;
   double precessionRevS = 0;
   double tiltDeg = 0;
+  double orbitMm = 0;
   std::string sweep;
   bool json = false;
   CLI::Option* precession = nullptr;
@@ -41,8 +42,12 @@ nlohmann::json spinJson(const SteadySpin& s) {
           {"drift_deg_per_rev", jsonNumber(s.driftDegPerRev)},
           {"drift_deg_s", jsonNumber(s.driftDegPerSecond)},
           {"contact_radius_mm", s.contactRadius * mm},
+          {"ring_radius_mm", s.ringRadius * mm},
           {"centre_height_mm", s.centreHeight * mm},
-          {"ceiling_height_mm", s.ceilingHeight * mm}};
+          {"ceiling_height_mm", s.ceilingHeight * mm},
+          {"orbit_mm", s.orbit * mm},
+          {"friction_needed", s.frictionNeeded},
+          {"top_speed_mm_s", s.topSpeed * mm}};
 }
 
 nlohmann::json bodyJson(const BodySpec& b, const Cylinder& c) {
@@ -85,10 +90,23 @@ std::string driftText(const SteadySpin& s) {
          " deg per revolution, " + signedFmt(s.driftDegPerSecond, 4) + " deg/s";
 }
 
-void printHuman(const Scenario& s, const Cylinder& c, const SteadySolution& sol, const std::string& input) {
+// What the orbit asks of the table and does to the marks at the top.
+std::string orbitText(const SteadySpin& s) {
+  return "centre orbit " + fmt(s.orbit * mm, 5) + " mm needs a friction coefficient of at least " +
+         fmt(s.frictionNeeded, 4) + "; the raised end's top passes at " + fmt(s.topSpeed * mm, 5) +
+         " mm/s along a ring of radius " + fmt(s.ringRadius * mm, 5) + " mm";
+}
+
+void printHuman(const Scenario& s, const Cylinder& c, const SteadySolution& sol, const std::string& input,
+                double orbit) {
   std::cout << "steady spin of a " << bodyDescription(s.body) << "\n";
-  std::cout << "  (centre fixed, rolling on the lower end's rim; mass cancels; g = " << fmt(k::gravity, 6)
-            << " m/s^2)\n";
+  if (orbit == 0)
+    std::cout << "  (centre fixed, rolling on the lower end's rim; mass cancels; g = " << fmt(k::gravity, 6)
+              << " m/s^2)\n";
+  else
+    std::cout << "  (centre circling the spin axis " << fmt(orbit * mm, 6)
+              << " mm from it, + towards the raised end; rolling on the lower end's rim; mass cancels; g = "
+              << fmt(k::gravity, 6) << " m/s^2)\n";
   std::cout << input << ":\n";
   const SteadySpin* p = sol.pattern();
   if (p) {
@@ -100,6 +118,7 @@ void printHuman(const Scenario& s, const Cylinder& c, const SteadySolution& sol,
               << "    floor contact circle radius " << fmt(p->contactRadius * mm, 5) << " mm, centre height "
               << fmt(p->centreHeight * mm, 5) << " mm, imaginary ceiling at " << fmt(p->ceilingHeight * mm, 5)
               << " mm\n";
+    if (orbit != 0) std::cout << "    " << orbitText(*p) << "\n";
   } else {
     std::cout << "  no pattern state: " << sol.reason << "\n";
   }
@@ -112,35 +131,38 @@ void printHuman(const Scenario& s, const Cylinder& c, const SteadySolution& sol,
   }
   if (squatBody(c))
     std::cout << "a body this short rolls steadily on its rim only below " << fmt(revS(sol.minPrecession), 5)
-              << " rev/s (" << fmt(sol.minPrecession, 5) << " rad/s)\n";
+              << " rev/s (" << fmt(sol.minPrecession, 5) << " rad/s)" << (orbit == 0 ? "" : " with the centre still")
+              << "\n";
   else
-    std::cout << "lowest precession that keeps the end up: " << fmt(revS(sol.minPrecession), 5) << " rev/s ("
-              << fmt(sol.minPrecession, 5) << " rad/s)\n";
+    std::cout << "lowest precession that keeps the end up" << (orbit == 0 ? "" : " with the centre still") << ": "
+              << fmt(revS(sol.minPrecession), 5) << " rev/s (" << fmt(sol.minPrecession, 5) << " rad/s)\n";
 }
 
 // The CSV sweep: one row per precession, the pattern state's columns empty
 // when there is none.
-std::string sweepCsv(const Cylinder& c, const FlagRange& r) {
+std::string sweepCsv(const Cylinder& c, const FlagRange& r, double orbit) {
   const long rows = long(std::floor((r.to - r.from) / r.step * (1 + 1e-12))) + 1;
   if (rows > steady_input::maxSweepRows)
     throw ScenarioError("--sweep-precession-rev-s", "the sweep has " + std::to_string(rows) + " rows; at most " +
                                                         std::to_string(steady_input::maxSweepRows) +
                                                         " are allowed: use a larger STEP");
   std::ostringstream o;
-  o << "precession_rev_s,solution,tilt_deg,spots_per_rev,nearest_spots,drift_deg_per_rev,drift_deg_s,"
-       "relative_spin_rev_s,contact_radius_mm,centre_height_mm,ceiling_height_mm,branches\n";
+  o << "precession_rev_s,orbit_mm,solution,tilt_deg,spots_per_rev,nearest_spots,drift_deg_per_rev,drift_deg_s,"
+       "relative_spin_rev_s,contact_radius_mm,centre_height_mm,ceiling_height_mm,friction_needed,ring_radius_mm,"
+       "top_speed_mm_s,branches\n";
   const auto cell = [](double v) { return std::isfinite(v) ? fmt(v, 10) : std::string(); };
   for (long i = 0; i < rows; ++i) {
     const double f = std::min(r.to, r.from + i * r.step);
-    const SteadySolution sol = steadyAtPrecession(c, f * k::twoPi);
+    const SteadySolution sol = steadyAtPrecession(c, f * k::twoPi, CentreOrbit{orbit});
     const SteadySpin* p = sol.pattern();
-    o << fmt(f, 10) << "," << (p ? "pattern" : "none");
+    o << fmt(f, 10) << "," << cell(orbit * mm) << "," << (p ? "pattern" : "none");
     if (p)
       o << "," << cell(deg(p->tilt)) << "," << cell(p->spotsPerRev) << "," << p->nearestSpots << ","
         << cell(p->driftDegPerRev) << "," << cell(p->driftDegPerSecond) << "," << cell(revS(p->relativeSpin)) << ","
-        << cell(p->contactRadius * mm) << "," << cell(p->centreHeight * mm) << "," << cell(p->ceilingHeight * mm);
+        << cell(p->contactRadius * mm) << "," << cell(p->centreHeight * mm) << "," << cell(p->ceilingHeight * mm)
+        << "," << cell(p->frictionNeeded) << "," << cell(p->ringRadius * mm) << "," << cell(p->topSpeed * mm);
     else
-      o << ",,,,,,,,,";
+      o << ",,,,,,,,,,,,";
     o << "," << sol.branches.size() << "\n";
   }
   return o.str();
@@ -158,23 +180,27 @@ int runSteady(const SteadyArgs& a) {
         parseFlagRange(a.sweep, "--sweep-precession-rev-s", steady_input::precession, true, &steady_input::sweepStep);
   if (byPrecession) checkedFlag(steady_input::precession, a.precessionRevS, "--precession-rev-s");
   if (byTilt) checkedFlag(steady_input::tilt, a.tiltDeg, "--tilt-deg");
+  checkedFlag(steady_input::orbit, a.orbitMm, "--orbit-mm");
+  const CentreOrbit orbit{a.orbitMm / mm};
 
   const Scenario s = loadBodyScenario(a.body);
   const Cylinder c = cylinderOf(s.body);
   if (bySweep) {
-    std::cout << sweepCsv(c, sweep);
+    std::cout << sweepCsv(c, sweep, orbit.rho);
     return exitOk;
   }
-  const SteadySolution sol =
-      byPrecession ? steadyAtPrecession(c, a.precessionRevS * k::twoPi) : steadyAtTilt(c, a.tiltDeg * k::degree);
+  const SteadySolution sol = byPrecession ? steadyAtPrecession(c, a.precessionRevS * k::twoPi, orbit)
+                                          : steadyAtTilt(c, a.tiltDeg * k::degree, orbit);
   if (a.json) {
     nlohmann::json input =
         byPrecession ? nlohmann::json{{"precession_rev_s", a.precessionRevS}} : nlohmann::json{{"tilt_deg", a.tiltDeg}};
+    input["orbit_mm"] = a.orbitMm;
     std::cout << solutionJson(s, c, sol, std::move(input)).dump(2) << "\n";
   } else {
     printHuman(s, c, sol,
                byPrecession ? "at precession " + fmt(a.precessionRevS, 6) + " rev/s"
-                            : "at tilt " + fmt(a.tiltDeg, 6) + " deg");
+                            : "at tilt " + fmt(a.tiltDeg, 6) + " deg",
+               orbit.rho);
   }
   return exitOk;
 }
@@ -184,7 +210,9 @@ int runSteady(const SteadyArgs& a) {
 void addSteadyCommand(CLI::App& app, Commands& commands) {
   auto args = std::make_shared<SteadyArgs>();
   CLI::App* sub = app.add_subcommand(
-      "steady", "Solve the steady spin (centre fixed, rolling on the lower rim) at a precession rate or a tilt");
+      "steady",
+      "Solve the steady spin (rolling on the lower rim, the centre still or on a given orbit) at a precession rate or "
+      "a tilt");
   addBodyFlags(sub, args->body);
   args->precession = sub->add_option(
       "--precession-rev-s", args->precessionRevS,
@@ -194,6 +222,12 @@ void addSteadyCommand(CLI::App& app, Commands& commands) {
                                    "); the precession is solved");
   args->sweepOpt = sub->add_option("--sweep-precession-rev-s", args->sweep,
                                    "FROM:TO:STEP in rev/s: print a CSV table of the pattern state instead");
+  sub->add_option("--orbit-mm", args->orbitMm,
+                  "the centre circling the spin axis this far from it, mm, signed: + towards the raised end, - "
+                  "towards the floor contact (" +
+                      steady_input::orbit.allowedText() +
+                      "; default 0, the centre still); a hand launch settles with a few mm (simulate's "
+                      "centre_orbit_mm)");
   auto* json = sub->add_flag("--json", args->json, "print one JSON object instead of text");
   args->precession->excludes(args->tilt)->excludes(args->sweepOpt);
   args->tilt->excludes(args->sweepOpt);

@@ -35,14 +35,15 @@ double gridPoint(double from, double to, int i, int n) {
 }
 
 // Worst |drift| on an n-point grid over [from, to], optionally refined.
-WorstDrift worstOnGrid(const Cylinder& c, int spots, double from, double to, double g, int n, bool refine) {
+WorstDrift worstOnGrid(const Cylinder& c, int spots, double from, double to, double g, CentreOrbit orbit, int n,
+                       bool refine) {
   if (from == to) n = 1;
   WorstDrift w;
   std::vector<double> x(n), d(n);
   int iMax = 0;
   for (int i = 0; i < n; ++i) {
     x[i] = gridPoint(from, to, i, n);
-    const DriftPoint p = driftAt(c, spots, x[i], g);
+    const DriftPoint p = driftAt(c, spots, x[i], g, orbit);
     if (!p.pattern) return {false, inf, x[i]};
     d[i] = std::abs(p.driftDegPerSecond);
     if (d[i] > d[iMax]) iMax = i;
@@ -53,7 +54,7 @@ WorstDrift worstOnGrid(const Cylinder& c, int spots, double from, double to, dou
     bool missing = false;
     double missingAt = 0;
     const auto negDrift = [&](double om) {
-      const DriftPoint p = driftAt(c, spots, om, g);
+      const DriftPoint p = driftAt(c, spots, om, g, orbit);
       if (!p.pattern) {
         missing = true;
         missingAt = om;
@@ -74,10 +75,10 @@ std::string revS(double omega) { return fmt(omega / k::twoPi, 4) + " rev/s"; }
 
 double defaultDriftLimitDegPerSecond(int spots) { return 360.0 / spots / 10.0; }
 
-DriftPoint driftAt(const Cylinder& c, int spots, double precession, double g) {
+DriftPoint driftAt(const Cylinder& c, int spots, double precession, double g, CentreOrbit orbit) {
   DriftPoint p;
   p.precession = precession;
-  const PatternResult r = patternAtPrecession(c, precession, g);
+  const PatternResult r = patternAtPrecession(c, precession, orbit, g);
   if (!r.found) return p;
   p.pattern = true;
   p.spin = r.spin;
@@ -86,21 +87,28 @@ DriftPoint driftAt(const Cylinder& c, int spots, double precession, double g) {
   return p;
 }
 
-WorstDrift worstDrift(const Cylinder& c, int spots, double from, double to, double g) {
+WorstDrift worstDrift(const Cylinder& c, int spots, double from, double to, double g, CentreOrbit orbit) {
   checkRangeArgs(spots, from, to);
-  return worstOnGrid(c, spots, from, to, g, fineGrid, true);
+  return worstOnGrid(c, spots, from, to, g, orbit, fineGrid, true);
 }
 
-LengthAdvice adviseLengthFor(const Cylinder& section, int spots, double from, double to, double g) {
+LengthAdvice adviseLengthFor(const Cylinder& section, int spots, double from, double to, double g,
+                             CentreOrbit orbit) {
   checkRangeArgs(spots, from, to);
   Cylinder c = section;
   c.length = 2 * c.outerRadius * spots;
   checkSteadyGeometry(c);
   const double D = 2 * section.outerRadius;
-  const double lo = std::max((spots - 0.5) * D, 1e-6), hi = 3 * (spots + 0.5) * D;
+  // N = L/D cos - sin - rho/R <= L/D - rho/R: an orbit towards the floor
+  // contact (rho < 0) lets a shorter body show n spots, one the other way
+  // asks for a longer one; the scan widens by rho/R diameters (not at all
+  // with the centre still).
+  const double shift = orbit.rho / section.outerRadius;
+  const double lo = std::max((spots - 0.5 + std::min(0.0, shift)) * D, 1e-6),
+               hi = 3 * (spots + 0.5 + std::max(0.0, shift)) * D;
   const auto fine = [&](double L) {
     c.length = L;
-    return worstOnGrid(c, spots, from, to, g, fineGrid, true).driftDegPerSecond;
+    return worstOnGrid(c, spots, from, to, g, orbit, fineGrid, true).driftDegPerSecond;
   };
 
   // 1. Coarse scan: J(L) on a coarse precession grid.
@@ -108,7 +116,7 @@ LengthAdvice adviseLengthFor(const Cylinder& section, int spots, double from, do
   for (int i = 0; i < lengthScan; ++i) {
     Ls[i] = gridPoint(lo, hi, i, lengthScan);
     c.length = Ls[i];
-    J[i] = worstOnGrid(c, spots, from, to, g, coarseGrid, false).driftDegPerSecond;
+    J[i] = worstOnGrid(c, spots, from, to, g, orbit, coarseGrid, false).driftDegPerSecond;
   }
   // 2. Refine the three lowest local minima with the fine objective. J is
   //    a maximum of smooth functions: not smooth at the optimum, but
@@ -124,7 +132,7 @@ LengthAdvice adviseLengthFor(const Cylinder& section, int spots, double from, do
   LengthAdvice a;
   a.spots = spots;
   if (minima.empty()) {
-    a.reason = from < minSteadyPrecession(c, g)
+    a.reason = orbit.rho == 0 && from < minSteadyPrecession(c, g)
                    ? "the range starts at " + revS(from) + ", below the lowest precession that keeps the end up (" +
                          revS(minSteadyPrecession(c, g)) +
                          "); no length changes that, it depends on the diameter and wall only"
@@ -148,27 +156,28 @@ LengthAdvice adviseLengthFor(const Cylinder& section, int spots, double from, do
   c.length = bestL;
   a.found = true;
   a.length = bestL;
-  a.worst = worstOnGrid(c, spots, from, to, g, fineGrid, true);
-  a.atFrom = driftAt(c, spots, from, g);
-  a.atTo = driftAt(c, spots, to, g);
+  a.worst = worstOnGrid(c, spots, from, to, g, orbit, fineGrid, true);
+  a.atFrom = driftAt(c, spots, from, g, orbit);
+  a.atTo = driftAt(c, spots, to, g, orbit);
   return a;
 }
 
-DimensionAdvice adviseLength(const Cylinder& section, int spots, double from, double to, double g) {
+DimensionAdvice adviseLength(const Cylinder& section, int spots, double from, double to, double g,
+                             CentreOrbit orbit) {
   if (spots < 2) throw std::invalid_argument("spots must be at least 2, got " + std::to_string(spots));
   DimensionAdvice d;
   d.from = from;
   d.to = to;
   d.minPrecession =
       minSteadyPrecession({2 * section.outerRadius * spots, section.outerRadius, section.innerRadius, 1}, g);
-  d.fewer = adviseLengthFor(section, spots - 1, from, to, g);
-  d.best = adviseLengthFor(section, spots, from, to, g);
-  d.more = adviseLengthFor(section, spots + 1, from, to, g);
+  d.fewer = adviseLengthFor(section, spots - 1, from, to, g, orbit);
+  d.best = adviseLengthFor(section, spots, from, to, g, orbit);
+  d.more = adviseLengthFor(section, spots + 1, from, to, g, orbit);
   return d;
 }
 
 PrecessionWindow precessionWindow(const Cylinder& c, int spots, double limit, double searchFrom, double searchTo,
-                                  double g) {
+                                  double g, CentreOrbit orbit) {
   checkRangeArgs(spots, searchFrom, searchTo);
   checkSteadyGeometry(c);
   if (!(limit > 0) || !std::isfinite(limit))
@@ -184,7 +193,7 @@ PrecessionWindow precessionWindow(const Cylinder& c, int spots, double limit, do
   std::vector<DriftPoint> p(n);
   std::vector<char> inside(n);
   for (int i = 0; i < n; ++i) {
-    p[i] = driftAt(c, spots, gridPoint(searchFrom, searchTo, i, n), g);
+    p[i] = driftAt(c, spots, gridPoint(searchFrom, searchTo, i, n), g, orbit);
     inside[i] = p[i].pattern && std::abs(p[i].driftDegPerSecond) <= limit;
   }
   // An edge between an inside and an outside precession, by bisection on
@@ -193,7 +202,7 @@ PrecessionWindow precessionWindow(const Cylinder& c, int spots, double limit, do
     for (int it = 0; it < 200; ++it) {
       const double mid = 0.5 * (in + out);
       if (mid == in || mid == out) break;
-      const DriftPoint q = driftAt(c, spots, mid, g);
+      const DriftPoint q = driftAt(c, spots, mid, g, orbit);
       (q.pattern && std::abs(q.driftDegPerSecond) <= limit ? in : out) = mid;
     }
     return in;
@@ -222,7 +231,7 @@ PrecessionWindow precessionWindow(const Cylinder& c, int spots, double limit, do
   }
   w.best = p[iBest];
   const auto drift = [&](double om) {
-    const DriftPoint q = driftAt(c, spots, om, g);
+    const DriftPoint q = driftAt(c, spots, om, g, orbit);
     return q.pattern ? q.driftDegPerSecond : inf;
   };
   bool rooted = false;
@@ -232,7 +241,8 @@ PrecessionWindow precessionWindow(const Cylinder& c, int spots, double limit, do
     if ((da > 0) != (db > 0) && da != 0 && db != 0) {
       const double a = p[iBest].precession, b = p[k].precession;
       w.best = driftAt(c, spots,
-                       numeric::brentRoot(drift, std::min(a, b), std::max(a, b), a < b ? da : db, a < b ? db : da), g);
+                       numeric::brentRoot(drift, std::min(a, b), std::max(a, b), a < b ? da : db, a < b ? db : da), g,
+                       orbit);
       rooted = true;
     }
   }
@@ -240,7 +250,7 @@ PrecessionWindow precessionWindow(const Cylinder& c, int spots, double limit, do
     const auto absDrift = [&](double om) { return std::abs(drift(om)); };
     const auto [om, v] = numeric::goldenMinimum(absDrift, p[std::max(0, iBest - 1)].precession,
                                                 p[std::min(n - 1, iBest + 1)].precession);
-    if (v < std::abs(w.best.driftDegPerSecond)) w.best = driftAt(c, spots, om, g);
+    if (v < std::abs(w.best.driftDegPerSecond)) w.best = driftAt(c, spots, om, g, orbit);
   }
   if (w.bands.empty())
     w.reason = "the drift stays above " + fmt(limit, 4) + " deg/s everywhere from " + revS(searchFrom) + " to " +

@@ -3,7 +3,9 @@
 // given length, over which precession rates the pattern stays still enough.
 // Built on the steady-spin solver (core/steady.hpp); every drift here is the
 // drift of the n-spot pattern the designer asked for (physics.md section 4),
-// degrees of azimuth, positive in the direction of precession.
+// degrees of azimuth, positive in the direction of precession. Every
+// function takes the centre orbit the designer expects (CentreOrbit, the
+// same at every precession; default the centre still, physics.md section 3).
 #pragma once
 #include <limits>
 #include <string>
@@ -35,7 +37,7 @@ struct DriftPoint {
   double driftDegPerRev = 0;     ///< drift of the n-spot pattern, deg per precession revolution
   double driftDegPerSecond = 0;  ///< the same per second
 };
-DriftPoint driftAt(const Cylinder& c, int spots, double precession, double g = k::gravity);
+DriftPoint driftAt(const Cylinder& c, int spots, double precession, double g = k::gravity, CentreOrbit orbit = {});
 
 /// The largest |drift| (deg/s) of the n-spot pattern over [from, to]
 /// (rad/s): a dense grid including both ends, the largest grid value refined
@@ -46,7 +48,8 @@ struct WorstDrift {
   double driftDegPerSecond = std::numeric_limits<double>::infinity();
   double precession = 0;  ///< where the worst drift is, rad/s
 };
-WorstDrift worstDrift(const Cylinder& c, int spots, double from, double to, double g = k::gravity);
+WorstDrift worstDrift(const Cylinder& c, int spots, double from, double to, double g = k::gravity,
+                      CentreOrbit orbit = {});
 
 /// The length that keeps N closest to n over a precession range.
 struct LengthAdvice {
@@ -70,11 +73,15 @@ struct DimensionAdvice {
 /// precession range [from, to] (rad/s, 0 <= from <= to) for the cross-section
 /// of `section` (its length is ignored; n >= 1). A fine scan over lengths
 /// (n - 1/2) D to 3 (n + 1/2) D (no shorter length can show n spots, as
-/// N <= L/D), then golden-section refinement of the best local minima.
+/// N <= L/D; on an orbit both ends move by rho/R diameters where that
+/// widens the scan, as N <= L/D - rho/R), then golden-section refinement of
+/// the best local minima.
 /// Throws std::invalid_argument on bad arguments.
-LengthAdvice adviseLengthFor(const Cylinder& section, int spots, double from, double to, double g = k::gravity);
+LengthAdvice adviseLengthFor(const Cylinder& section, int spots, double from, double to, double g = k::gravity,
+                             CentreOrbit orbit = {});
 /// adviseLengthFor for n - 1, n and n + 1 (n >= 2).
-DimensionAdvice adviseLength(const Cylinder& section, int spots, double from, double to, double g = k::gravity);
+DimensionAdvice adviseLength(const Cylinder& section, int spots, double from, double to, double g = k::gravity,
+                             CentreOrbit orbit = {});
 
 /// The reverse: for a body of given length, the precessions (rad/s) within
 /// [searchFrom, searchTo] where the n-spot pattern exists and its |drift|
@@ -93,6 +100,6 @@ struct PrecessionWindow {
   std::string reason;                   ///< why there is no band, when there is none
 };
 PrecessionWindow precessionWindow(const Cylinder& c, int spots, double limitDegPerSecond, double searchFrom,
-                                  double searchTo, double g = k::gravity);
+                                  double searchTo, double g = k::gravity, CentreOrbit orbit = {});
 
 }  // namespace dm

@@ -88,6 +88,31 @@ EOF
 "$bin" advise "$src/assets/scenarios/demo.json" --spots 4 --precession-rev-s 7:8 --json | grep -q '"solution": "length"' ||
   fail "advise with a scenario"
 
+# --- With an expected centre orbit (our derivation, core/steady.cpp) the
+# advice is for that orbit: the length moves (the orbit raises N by -rho/R at a
+# given tilt but also tilts the body further, which lowers it; for this section
+# the length grows by about 1.6 mm), and steady at the same orbit reads back
+# the advised drift.
+"$bin" advise --spots 4 "${section[@]}" --precession-rev-s 6.5:9 --orbit-mm -3 --json >"$tmp/orb.json" ||
+  fail "advise --orbit-mm exited $?"
+python3 - "$tmp/orb.json" "$tmp/adv.json" <<'EOF' || fail "advise --orbit-mm content"
+import json, sys
+j = json.load(open(sys.argv[1]))
+still = json.load(open(sys.argv[2]))
+assert j["orbit_mm"] == -3 and still["orbit_mm"] == 0
+assert j["recommended"]["found"]
+assert abs(j["recommended"]["length_mm"] - still["recommended"]["length_mm"]) > 0.5, (j["recommended"]["length_mm"], still["recommended"]["length_mm"])
+open(sys.argv[1] + ".length", "w").write(repr(j["recommended"]["length_mm"]))
+EOF
+"$bin" steady --length-mm "$(cat "$tmp/orb.json.length")" "${section[@]}" --precession-rev-s 9 --orbit-mm -3 --json >"$tmp/orb9.json" ||
+  fail "steady at the advised orbit exited $?"
+python3 - "$tmp/orb.json" "$tmp/orb9.json" <<'EOF' || fail "fed-back drift on the orbit"
+import json, sys
+adv = json.load(open(sys.argv[1]))["recommended"]["to"]
+st = json.load(open(sys.argv[2]))
+assert abs(adv["drift_deg_s"] - st["drift_deg_s"]) < 1e-6 * max(1, abs(st["drift_deg_s"])), (adv, st["drift_deg_s"])
+EOF
+
 # --- Bad input: exit 2, a message naming the flag, value and range, no stdout.
 bad() {
   local want=$1
@@ -101,6 +126,7 @@ bad() {
   [ ! -s "$tmp/out" ] || fail "advise $* wrote to stdout"
 }
 bad "--spots: value 1 is out of range; allowed 2 to 20" --spots 1 "${section[@]}" --precession-rev-s 6:9
+bad "--orbit-mm: value 1001 is out of range; allowed -1000 to 1000 mm" --spots 4 "${section[@]}" --precession-rev-s 6:9 --orbit-mm 1001
 bad "--spots: value 40 is out of range; allowed 2 to 20" --spots 40 "${section[@]}" --precession-rev-s 6:9
 bad "--spots is required" "${section[@]}" --precession-rev-s 6:9
 bad "--precession-rev-s: FROM 9 is above TO 6" --spots 4 "${section[@]}" --precession-rev-s 9:6

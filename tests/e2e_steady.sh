@@ -34,6 +34,34 @@ assert len(b) == 2 and b[0]["pattern"] and not b[1]["pattern"], b
 assert 83 < b[1]["tilt_deg"] < 88
 EOF
 
+# --- JSON on a centre orbit (our derivation, core/steady.cpp): the keys, the
+# orbit echoed, N = (b - rho)/R, the friction Omega^2 |rho| / g and the top's
+# speed 2 Omega |rho|; with the default orbit 0 every old figure is unchanged.
+"$bin" steady "${tube[@]}" --precession-rev-s 8 --orbit-mm -2.5 --json >"$tmp/o8.json" || fail "steady --orbit-mm exited $?"
+python3 - "$tmp/o8.json" "$tmp/p8.json" <<'EOF' || fail "steady --orbit-mm content"
+import json, math, sys
+j = json.load(open(sys.argv[1]))
+still = json.load(open(sys.argv[2]))
+for key in ["orbit_mm", "friction_needed", "ring_radius_mm", "top_speed_mm_s"]:
+    assert key in j and key in still, key
+assert j["input"]["orbit_mm"] == -2.5 and j["orbit_mm"] == -2.5, j["input"]
+assert j["solution"] == "pattern"
+w = 8 * 2 * math.pi
+a = math.radians(j["tilt_deg"])
+b = 32 * math.cos(a) - 8 * math.sin(a)
+assert abs(j["spots_per_rev"] - (b + 2.5) / 8) < 1e-9, j["spots_per_rev"]
+assert abs(j["friction_needed"] - w * w * 2.5e-3 / j["gravity_m_s2"]) < 1e-12
+assert abs(j["top_speed_mm_s"] - 2 * w * 2.5) < 1e-9
+assert abs(j["ring_radius_mm"] - (b - 2.5)) < 1e-9 and abs(j["contact_radius_mm"] - (b + 2.5)) < 1e-9
+assert j["tilt_deg"] > still["tilt_deg"] + 1, (j["tilt_deg"], still["tilt_deg"])
+assert still["orbit_mm"] == 0 and still["friction_needed"] == 0 and still["top_speed_mm_s"] == 0
+assert still["ring_radius_mm"] == still["contact_radius_mm"]
+EOF
+"$bin" steady "${tube[@]}" --precession-rev-s 8 --orbit-mm -2.5 | grep -q "centre orbit -2.5 mm needs a friction coefficient of at least" ||
+  fail "text for an orbit"
+"$bin" steady "${tube[@]}" --precession-rev-s 5 --orbit-mm 30 --json | grep -q '"reason": ".*orbiting 30 mm' ||
+  fail "no pattern on an orbit gives no reason naming it"
+
 # --- JSON: below the lowest precession there is no pattern: an answer, exit 0.
 "$bin" steady "${tube[@]}" --precession-rev-s 5 --json >"$tmp/p5.json" || fail "steady below the minimum exited $?"
 python3 - "$tmp/p5.json" <<'EOF' || fail "steady none content"
@@ -74,7 +102,8 @@ python3 - "$tmp/sweep.csv" <<'EOF' || fail "sweep content"
 import csv, sys
 rows = list(csv.DictReader(open(sys.argv[1])))
 header = open(sys.argv[1]).readline().strip().split(",")
-for col in ["precession_rev_s", "tilt_deg", "spots_per_rev", "drift_deg_s", "contact_radius_mm", "ceiling_height_mm"]:
+for col in ["precession_rev_s", "tilt_deg", "spots_per_rev", "drift_deg_s", "contact_radius_mm", "ceiling_height_mm",
+            "orbit_mm", "friction_needed", "ring_radius_mm", "top_speed_mm_s"]:
     assert col in header, col
 assert len(rows) == 11, len(rows)
 assert float(rows[0]["precession_rev_s"]) == 5 and float(rows[-1]["precession_rev_s"]) == 10
@@ -84,6 +113,15 @@ tilts = [float(r["tilt_deg"]) for r in rows if r["solution"] == "pattern"]
 assert tilts == sorted(tilts) and len(tilts) == 9
 EOF
 [ "$("$bin" steady "${tube[@]}" --sweep-precession-rev-s 7:7:1 | wc -l)" -eq 2 ] || fail "one-row sweep"
+"$bin" steady "${tube[@]}" --sweep-precession-rev-s 8:8:1 --orbit-mm -2.5 >"$tmp/osweep.csv" || fail "orbit sweep exited $?"
+python3 - "$tmp/osweep.csv" "$tmp/o8.json" <<'EOF' || fail "orbit sweep content"
+import csv, json, sys
+row = list(csv.DictReader(open(sys.argv[1])))[0]
+j = json.load(open(sys.argv[2]))
+assert float(row["orbit_mm"]) == -2.5
+for col in ["tilt_deg", "spots_per_rev", "friction_needed", "ring_radius_mm", "top_speed_mm_s"]:
+    assert abs(float(row[col]) - j[col]) < 1e-8 * max(1, abs(j[col])), col
+EOF
 
 # --- Bad input: exit 2, a message naming the flag, value and range, no stdout.
 bad() {
@@ -101,6 +139,8 @@ bad "--precession-rev-s: value -1 is out of range; allowed 0 to 100 rev/s" "${tu
 bad "--precession-rev-s: value 250 is out of range; allowed 0 to 100 rev/s" "${tube[@]}" --precession-rev-s 250
 bad "--tilt-deg: value 95 is out of range; allowed 0 to 90 deg" "${tube[@]}" --tilt-deg 95
 bad "--tilt-deg: value -3 is out of range; allowed 0 to 90 deg" "${tube[@]}" --tilt-deg=-3
+bad "--orbit-mm: value 1500 is out of range; allowed -1000 to 1000 mm" "${tube[@]}" --precession-rev-s 8 --orbit-mm 1500
+bad "--orbit-mm: value -2000 is out of range; allowed -1000 to 1000 mm" "${tube[@]}" --sweep-precession-rev-s 6:8:1 --orbit-mm=-2000
 bad "--sweep-precession-rev-s: FROM 10 is above TO 6" "${tube[@]}" --sweep-precession-rev-s 10:6:1
 bad "--sweep-precession-rev-s: STEP 0 is out of range" "${tube[@]}" --sweep-precession-rev-s 6:10:0
 bad "--sweep-precession-rev-s: expected FROM:TO:STEP in rev/s, got \"6-10\"" "${tube[@]}" --sweep-precession-rev-s 6-10
