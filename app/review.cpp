@@ -42,25 +42,38 @@ Scenario reviewedScenario(const Scenario& s, const ReviewOptions& o) {
   return r;
 }
 
-// Mean precession of the first pattern window that starts after the settle
-// (rad/s), or none.
-std::optional<double> settledPrecession(const RunResult& run, const PatternAnalysis& p) {
-  if (!run.summary.settleTime) return std::nullopt;
+// The first pattern window that starts after the settle and precesses, or none.
+const PatternWindow* settledWindow(const RunResult& run, const PatternAnalysis& p) {
+  if (!run.summary.settleTime) return nullptr;
   for (const PatternWindow& w : p.windows)
-    if (w.start >= *run.summary.settleTime && std::abs(w.meanPrecession) > 0) return std::abs(w.meanPrecession);
-  return std::nullopt;
+    if (w.start >= *run.summary.settleTime && std::abs(w.meanPrecession) > 0) return &w;
+  return nullptr;
 }
 
-// Steady predictions: at the nominal run's settled precession and at three
-// multiples of the lowest steady precession (below it for a squat body,
-// whose rolling branch lies there).
-std::vector<SteadyRow> steadyRows(const Cylinder& body, double minPrecession, std::optional<double> settled) {
+// Steady predictions: at the nominal run's settled precession with the
+// centre orbit measured in that window (so the prediction describes the
+// motion the run makes), and, with the centre still, at three multiples of
+// the lowest steady precession (below it for a squat body, whose rolling
+// branch lies there).
+std::vector<SteadyRow> steadyRows(const Cylinder& body, double minPrecession, const PatternWindow* settled) {
   std::vector<SteadyRow> rows;
-  if (settled) rows.push_back({*settled, "the nominal launch after settling", patternAtPrecession(body, *settled)});
+  if (settled) {
+    SteadyRow r;
+    r.precession = std::abs(settled->meanPrecession);
+    r.label = "the nominal launch after settling";
+    r.orbit = settled->centreOrbit.value_or(0.0);
+    r.measured = MeasuredWindow{settled->start, settled->end, settled->meanTilt, settled->spotsPerRev};
+    r.result = patternAtPrecession(body, r.precession, CentreOrbit{r.orbit});
+    rows.push_back(r);
+  }
   const bool squat = squatBody(body);
-  for (double f : squat ? std::vector<double>{0.5, 0.7, 0.9} : std::vector<double>{1.1, 1.5, 2.0})
-    rows.push_back({f * minPrecession, fmt(f, 2) + " x the lowest steady precession",
-                    patternAtPrecession(body, f * minPrecession)});
+  for (double f : squat ? std::vector<double>{0.5, 0.7, 0.9} : std::vector<double>{1.1, 1.5, 2.0}) {
+    SteadyRow r;
+    r.precession = f * minPrecession;
+    r.label = fmt(f, 2) + " x the lowest steady precession";
+    r.result = patternAtPrecession(body, r.precession);
+    rows.push_back(r);
+  }
   return rows;
 }
 
@@ -105,7 +118,10 @@ json orNull(double v) { return std::isfinite(v) ? json(v) : json(nullptr); }
 json steadyJson(const VariantReview& v) {
   json rows = json::array();
   for (const SteadyRow& r : v.steady) {
-    json j = {{"label", r.label}, {"precession_rev_s", r.precession / k::twoPi}, {"found", r.result.found}};
+    json j = {{"label", r.label},
+              {"precession_rev_s", r.precession / k::twoPi},
+              {"orbit_mm", r.orbit * 1e3},
+              {"found", r.result.found}};
     if (r.result.found) {
       const SteadySpin& s = r.result.spin;
       j["tilt_deg"] = s.tilt / k::degree;
@@ -114,7 +130,13 @@ json steadyJson(const VariantReview& v) {
       j["drift_deg_s"] = orNull(s.driftDegPerSecond);
       j["ceiling_height_mm"] = s.ceilingHeight * 1e3;
       j["contact_radius_mm"] = s.contactRadius * 1e3;
+      j["friction_needed"] = s.frictionNeeded;
     }
+    if (r.measured)
+      j["measured"] = {{"start_s", r.measured->start},
+                       {"end_s", r.measured->end},
+                       {"tilt_deg", r.measured->tilt / k::degree},
+                       {"spots_per_rev", r.measured->spotsPerRev ? json(*r.measured->spotsPerRev) : json(nullptr)}};
     rows.push_back(j);
   }
   return {{"min_precession_rev_s", v.minPrecession / k::twoPi}, {"rows", rows}};
@@ -207,7 +229,7 @@ VariantReview reviewVariant(const Scenario& input, const ReviewOptions& o) {
   v.pattern = analysePattern(s, *run);
   const Cylinder body = cylinderOf(s.body);
   v.minPrecession = minSteadyPrecession(body);
-  v.steady = steadyRows(body, v.minPrecession, settledPrecession(*run, v.pattern));
+  v.steady = steadyRows(body, v.minPrecession, settledWindow(*run, v.pattern));
   tell(o, s.name + ": " + std::to_string(o.launches) + " visitor launches");
   EnsembleOptions e;
   e.launches = o.launches;

@@ -47,11 +47,20 @@ class ReviewFault : public std::runtime_error {
   using std::runtime_error::runtime_error;
 };
 
-/// The steady spin at one precession.
+/// What the nominal run measured over the pattern window a steady row stands for.
+struct MeasuredWindow {
+  double start = 0, end = 0;          ///< s
+  double tilt = 0;                    ///< mean tilt, rad
+  std::optional<double> spotsPerRev;  ///< the window's N
+};
+
+/// The steady spin at one precession and centre orbit.
 struct SteadyRow {
-  double precession = 0;       ///< rad/s
-  std::string label;           ///< where the precession comes from
-  PatternResult result;        ///< the pattern state there, if any
+  double precession = 0;                   ///< rad/s
+  std::string label;                       ///< where the precession comes from
+  double orbit = 0;                        ///< centre orbit solved with, m (CentreOrbit; 0: the centre still)
+  std::optional<MeasuredWindow> measured;  ///< the run's window, for the nominal launch's row
+  PatternResult result;                    ///< the pattern state there, if any
 };
 
 /// Everything the review shows of one variant.

@@ -248,22 +248,34 @@ std::string parametersSection(const std::vector<VariantReview>& variants) {
 }
 
 std::string steadySection(const std::vector<VariantReview>& variants) {
-  std::string out = "<section id=\"steady\"><h2>Steady-spin prediction</h2><p>The spin the piece settles into with "
-                    "its centre still (rolling on the lower rim, the raised end's top point at rest): tilt, spots per "
-                    "revolution N and the drift of the nearest whole-number pattern.</p><div class=\"variants\">";
+  std::string out = "<section id=\"steady\"><h2>Steady-spin prediction</h2><p>The spin the piece settles into, "
+                    "rolling on the lower rim while its axis turns about a vertical line: tilt, spots per revolution "
+                    "N and the drift of the nearest whole-number pattern. A hand launch settles with its centre "
+                    "circling that line a few millimetres off it, held by the table's friction (the centre orbit, - "
+                    "towards the floor contact); the first row uses the orbit the nominal launch shows in the window "
+                    "named, beside what that window measured. The other rows keep the centre on the line (orbit 0), "
+                    "where the raised end's top point stands still.</p><div class=\"variants\">";
   for (const VariantReview& v : variants) {
-    Table t{{"precession", "tilt", "N", "spots", "drift"}, {}};
+    Table t{{"precession", "centre orbit", "tilt", "N", "spots", "drift", "friction needed", "the run measured"}, {}};
     for (const SteadyRow& r : v.steady) {
+      const std::string orbit = r.orbit == 0 ? "0 (centre still)" : mm(r.orbit);
+      std::string measured = "-";
+      if (r.measured)
+        measured = "tilt " + number(r.measured->tilt / k::degree) + " deg, N " +
+                   (r.measured->spotsPerRev ? number(*r.measured->spotsPerRev) : std::string("-")) + " (" +
+                   seconds(r.measured->start) + " to " + seconds(r.measured->end) + ")";
       if (!r.result.found) {
-        t.rows.push_back({escape(revS(r.precession) + " (" + r.label + ")"), "no steady spin", "-", "-", "-"});
+        t.rows.push_back({escape(revS(r.precession) + " (" + r.label + ")"), escape(orbit), "no steady spin", "-", "-",
+                          "-", "-", escape(measured)});
         continue;
       }
       const SteadySpin& s = r.result.spin;
-      t.rows.push_back({escape(revS(r.precession) + " (" + r.label + ")"), number(s.tilt / k::degree) + " deg",
-                        number(s.spotsPerRev), std::to_string(s.nearestSpots), number(s.driftDegPerSecond) + " deg/s"});
+      t.rows.push_back({escape(revS(r.precession) + " (" + r.label + ")"), escape(orbit),
+                        number(s.tilt / k::degree) + " deg", number(s.spotsPerRev), std::to_string(s.nearestSpots),
+                        number(s.driftDegPerSecond) + " deg/s", number(s.frictionNeeded, 3), escape(measured)});
     }
     out += "<div class=\"variant\"><h3>" + escape(v.scenario.name) + "</h3><p>Lowest steady precession " +
-           revS(v.minPrecession) + ".</p>" + t.html() + "</div>";
+           revS(v.minPrecession) + " (centre still).</p>" + t.html() + "</div>";
   }
   return out + "</div></section>";
 }
