@@ -48,9 +48,9 @@ std::string seconds(double s) { return number(s, 3) + " s"; }
 std::string percent(double share) { return number(100 * share, 3) + " %"; }
 std::string revS(double radS) { return number(radS / k::twoPi) + " rev/s"; }
 
-// An embedded PNG, shown `shownWidth` px wide (0: at its own size).
+// An embedded PNG, shown at most `shownWidth` px wide (0: at its own size).
 std::string image(const Image& img, const std::string& alt, int shownWidth = 0) {
-  const int w = shownWidth > 0 ? shownWidth : img.width;
+  const int w = shownWidth > 0 ? std::min(shownWidth, img.width) : img.width;
   const int h = int(std::lround(double(img.height) * w / std::max(1, img.width)));
   return "<img src=\"data:image/png;base64," + base64(encodePng(img)) + "\" alt=\"" + escape(alt) + "\" width=\"" +
          std::to_string(w) + "\" height=\"" + std::to_string(h) + "\">";
@@ -322,7 +322,7 @@ std::string observerSection(const std::vector<VariantReview>& variants) {
   return out + "</div></section>";
 }
 
-// Width the viewing check's images are shown at, px: they are sized to
+// Widest the viewing check's images are shown, px: they are sized to
 // resolve the markings, often larger than a page column.
 constexpr int shownViewerWidth = 320;
 
