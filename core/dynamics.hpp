@@ -61,8 +61,9 @@ double dampingRatioForRestitution(double e);
 void setInertia(Params& p, const Vec3& principal);
 
 /// Per-slot friction memory: the accumulated slip of the contact (stick
-/// spring elongation, lab frame, horizontal, metres) and whether it slid
-/// at the end of the last step.
+/// spring elongation, horizontal, metres, in lab coordinates; it turns with
+/// the slot about the vertical) and whether it slid at the end of the last
+/// step.
 struct SlotState {
   Vec3 spring = Vec3::Zero();
   bool sliding = false;

@@ -89,21 +89,29 @@ namespace {
 
 struct Hold {
   double maxTiltError = 0;  // rad
-  double maxCentreDrift = 0;  // m
+  double maxCentreDrift = 0;  // m, from where the centre would be on the rigid steady path
   double maxSlipRatio = 0;  // slip / rim speed
 };
 
-Hold holdSteady(const Params& p, double alpha, double duration) {
-  test::SteadyStart st = test::steadyStart(p, alpha);
+// Runs the rigid steady start for `duration` and records how far the run
+// departs from it. The rim speed is R times the relative spin (the speed at
+// which the rim runs through the contact), smaller than R |w| and so the
+// stricter reference for the creep.
+Hold holdSteady(const Params& p, double alpha, double duration, double circle = 0) {
+  const test::SteadyStart st = test::steadyStart(p, alpha, circle);
   State s = st.state;
   const Vec3 c0 = s.position;
+  const double rimSpeed = p.body.outerRadius * std::abs(st.relativeSpin);
   Hold h;
   while (s.t < duration) {
     const ContactReport c = step(p, s);
     const AxisMotion m = axisMotion(s.orientation, s.spinWorld());
     h.maxTiltError = std::max(h.maxTiltError, std::abs(m.tilt - alpha));
-    h.maxCentreDrift = std::max(h.maxCentreDrift, std::hypot(s.position.x() - c0.x(), s.position.y() - c0.y()));
-    h.maxSlipRatio = std::max(h.maxSlipRatio, c.maxSlip() / (p.body.outerRadius * s.spinBody.norm()));
+    // The rigid path: the centre turns about (-circle, 0) at the precession rate.
+    const double turned = st.precession * s.t;
+    const Vec3 onPath(c0.x() - circle + circle * std::cos(turned), c0.y() + circle * std::sin(turned), c0.z());
+    h.maxCentreDrift = std::max(h.maxCentreDrift, std::hypot(s.position.x() - onPath.x(), s.position.y() - onPath.y()));
+    h.maxSlipRatio = std::max(h.maxSlipRatio, c.maxSlip() / rimSpeed);
   }
   return h;
 }
@@ -141,6 +149,29 @@ TEST_CASE("a 4:1 tube started in its steady spin holds it, with no creep", "[dyn
     CHECK(h.maxCentreDrift < 0.5e-3);
     CHECK(h.maxSlipRatio < 1e-4);
   }
+}
+
+TEST_CASE("a 4:1 tube rolling steadily with its centre on a circle keeps to it, with no creep", "[dynamics][validation]") {
+  // Our derivation (tests/support.hpp, steadyStart: physics.md section 3 with
+  // the centre on a circle): here the contact must carry the centripetal
+  // friction m W^2 X, which turns with the precession, so the creep bound is
+  // tested where friction is needed (at a fixed centre it is not). Circles of
+  // 0.5 and 1 mm need 8 to 33 % of the weight, under the static coefficient
+  // 0.45. Same targets: slip below 1e-4 of the rim speed, tilt within 0.1 deg,
+  // centre within 0.5 mm of its rigid circle for 2 s. A spring held in the
+  // lab frame instead of the contact's creeps at W F / k: 1.1e-4 to 5.9e-4
+  // of the rim speed (measured), so this check fails for it; held in the
+  // contact's frame, 2.4e-5 to 4.1e-5, as with the centre fixed.
+  Scenario sc = bodyScenario(Shape::Tube, 0.064, 0.016, 0.001, 2700);
+  const Params p = makeParams(sc);
+  for (double circleMm : {0.5, 1.0})
+    for (double tiltDeg : {2.0, 12.0, 16.0}) {
+      INFO("circle " << circleMm << " mm, tilt " << tiltDeg << " deg");
+      const Hold h = holdSteady(p, tiltDeg * k::degree, 2.0, circleMm * 1e-3);
+      CHECK(h.maxTiltError < 0.1 * k::degree);
+      CHECK(h.maxCentreDrift < 0.5e-3);
+      CHECK(h.maxSlipRatio < 1e-4);
+    }
 }
 
 TEST_CASE("a torque-free body conserves energy and angular momentum, and the intermediate axis is unstable", "[dynamics][validation]") {
