@@ -29,6 +29,17 @@ std::array<Vec3, slotsPerEnd> slotDirections(const Mat3& worldFromBody) {
   return {d, side, -d, -side};
 }
 
+// Cundall-Strack: a spring beyond its Coulomb limit (static while it sticks,
+// kinetic while it slides) slides and is cut back to the kinetic limit. A
+// slot off the table (no normal force) loses its spring.
+SlotState withinCoulombLimit(const Params& p, SlotState slot, double normal) {
+  const double mu = slot.sliding ? p.frictionKinetic : p.frictionStatic;
+  const double springForce = p.tangentStiffness * slot.spring.norm();
+  slot.sliding = springForce > mu * normal;
+  if (slot.sliding) slot.spring *= p.frictionKinetic * normal / springForce;
+  return slot;
+}
+
 // Rate (rad/s, counter-clockwise seen from above) at which the slots turn
 // about the vertical: the azimuth rate of the axis, (a x da/dt)_z / |a_h|^2.
 // The stick springs are held in this turning contact frame: a friction force
@@ -88,14 +99,7 @@ Deriv evaluate(const Params& p, State& s, bool commit, ContactReport* report) {
       const Vec3 pointVelocity = s.velocity + spin.cross(lever);
       const double normal = std::max(0.0, p.normalStiffness * depth - p.normalDamping * pointVelocity.z());
       const Vec3 slip(pointVelocity.x(), pointVelocity.y(), 0);
-      const double mu = slot.sliding ? p.frictionKinetic : p.frictionStatic;
-      if (commit) {
-        // Cundall-Strack: a spring beyond its Coulomb limit slides and is
-        // cut back to the kinetic limit.
-        const double springForce = p.tangentStiffness * slot.spring.norm();
-        slot.sliding = springForce > mu * normal;
-        if (slot.sliding) slot.spring *= p.frictionKinetic * normal / springForce;
-      }
+      if (commit) slot = withinCoulombLimit(p, slot, normal);
       Vec3 friction = -p.tangentStiffness * slot.spring - p.tangentDamping * slip;
       const double frictionLimit = (slot.sliding ? p.frictionKinetic : p.frictionStatic) * normal;
       const double frictionNorm2 = friction.squaredNorm();
@@ -300,7 +304,11 @@ double energy(const Params& p, const State& s, const ContactReport& c) {
   for (int i = 0; i < slotCount; ++i) {
     const double depth = -c.point[i].z();
     if (depth > 0) e += 0.5 * p.normalStiffness * depth * depth;
-    e += 0.5 * p.tangentStiffness * s.slots[i].spring.squaredNorm();
+    // What the spring holds: a step of sliding stretches it past its
+    // Coulomb limit, and the next step cuts it back before it acts; the
+    // stretch beyond the limit never pushes (the force is capped) and is
+    // not stored energy.
+    e += 0.5 * p.tangentStiffness * withinCoulombLimit(p, s.slots[i], c.normalForce[i]).spring.squaredNorm();
   }
   return e;
 }

@@ -106,7 +106,8 @@ Phase classify(const Params& p, const State& s, const ContactReport& c);
 ContactReport step(const Params& p, State& s);
 
 /// Mechanical energy, J: kinetic + gravitational (table top = 0) + the
-/// elastic energy stored in the contact springs.
+/// elastic energy stored in the contact springs (each friction spring as
+/// its Coulomb limit leaves it).
 double energy(const Params& p, const State& s);
 /// The same, from the state's contact report (no extra force evaluation).
 /// The report must be that of `s` with its springs as they are now.
