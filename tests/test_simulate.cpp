@@ -55,6 +55,54 @@ DrivenRoll drivenRoll() {
 
 }  // namespace
 
+TEST_CASE("settle time is the start of the first rim rolling that lasts 0.5 s", "[simulate][events]") {
+  // The definition: settle time = the first moment of sustained
+  // rolling on one rim, sustained = at least 0.5 s; the raised end is the one
+  // raised then. A 4:1 tube started in its steady spin (physics.md section 3)
+  // rolls on end B's rim from the first instant, end A raised.
+  const Scenario sc = test::bodyScenario(Shape::Tube, 0.064, 0.016, 0.001, 2700);
+  const Params p = makeParams(sc);
+  const State start = test::steadyStart(p, 12 * k::degree).state;
+  const RunResult held = simulateFrom(p, start, 0.6, 1e-3, End::A);
+  REQUIRE(held.summary.phases.size() == 1);
+  CHECK(held.summary.phases[0].phase == Phase::RollingB);
+  REQUIRE(held.summary.settleTime);
+  CHECK(*held.summary.settleTime == 0);
+  REQUIRE(held.summary.raisedEnd);
+  CHECK(*held.summary.raisedEnd == End::A);
+  // The same rolling cut short of 0.5 s is not sustained: no settle time, no raised end.
+  const RunResult brief = simulateFrom(p, start, 0.45, 1e-3, End::A);
+  CHECK(brief.summary.phases.size() == 1);
+  CHECK_FALSE(brief.summary.settleTime);
+  CHECK_FALSE(brief.summary.raisedEnd);
+}
+
+TEST_CASE("rest time is when the body stops, or lies flat without spin", "[simulate][events]") {
+  // A solid cylinder rolling on its side at v0 is slowed by the rolling
+  // resistance couple c N R at c g / (1 + k), k = 1/2 (our derivation from
+  // m a = F, I a / R = -F R - c m g R). It counts as at rest once it lies
+  // flat turning slower than 0.1 rad/s (the definition in simulate.cpp), at
+  // speed 0.1 R: t = (v0 - 0.1 R)(1 + k) / (c g). Tolerance 2 %: the couple
+  // fades below 0.05 rad/s (k::torqueSmoothing) and the contact settles in
+  // the first milliseconds.
+  Scenario sc = test::bodyScenario(Shape::Rod, 0.08, 0.03, 0);
+  sc.surface.rollingResistance = 0.05;
+  const Params p = makeParams(sc);
+  const double R = p.body.outerRadius, v0 = 0.05;
+  State s;
+  s.orientation = test::frameAlong(Vec3::UnitY());
+  s.position = Vec3(0, 0, R - p.inertia.mass * p.gravity / (2 * p.normalStiffness));
+  s.velocity = Vec3(v0, 0, 0);
+  s.spinBody = Vec3(0, 0, v0 / R);  // rolling: the frame's z is lab +y
+  const RunResult r = simulateFrom(p, s, 0.5, 1e-3, End::A);
+  REQUIRE(r.summary.restTime);
+  CHECK(*r.summary.restTime == Approx((v0 - 0.1 * R) * 1.5 / (0.05 * k::gravity)).epsilon(0.02));
+  CHECK(r.summary.phases.back().phase != Phase::Sliding);
+  // Still rolling at the end of a shorter run: no rest time.
+  const RunResult early = simulateFrom(p, s, 0.1, 1e-3, End::A);
+  CHECK_FALSE(early.summary.restTime);
+}
+
 TEST_CASE("a non-finite state stops the run at once with the time, phase and last good state", "[simulate][fault]") {
   const Scenario sc = test::bodyScenario(Shape::Rod, 0.05, 0.01, 0);
   const Params p = makeParams(sc);
