@@ -48,9 +48,12 @@ std::string seconds(double s) { return number(s, 3) + " s"; }
 std::string percent(double share) { return number(100 * share, 3) + " %"; }
 std::string revS(double radS) { return number(radS / k::twoPi) + " rev/s"; }
 
-std::string image(const Image& img, const std::string& alt) {
+// An embedded PNG, shown at most `shownWidth` px wide (0: at its own size).
+std::string image(const Image& img, const std::string& alt, int shownWidth = 0) {
+  const int w = shownWidth > 0 ? std::min(shownWidth, img.width) : img.width;
+  const int h = int(std::lround(double(img.height) * w / std::max(1, img.width)));
   return "<img src=\"data:image/png;base64," + base64(encodePng(img)) + "\" alt=\"" + escape(alt) + "\" width=\"" +
-         std::to_string(img.width) + "\" height=\"" + std::to_string(img.height) + "\">";
+         std::to_string(w) + "\" height=\"" + std::to_string(h) + "\">";
 }
 
 // A table with a header row of variant names and one row per label.
@@ -331,6 +334,10 @@ std::string observerSection(const std::vector<VariantReview>& variants) {
   return out + "</div></section>";
 }
 
+// Widest the viewing check's images are shown, px: they are sized to
+// resolve the markings, often larger than a page column.
+constexpr int shownViewerWidth = 320;
+
 std::string viewingSection(const std::vector<VariantReview>& variants) {
   std::string out = "<section id=\"viewing\"><h2>Viewing check</h2><p>Spot contrast from each viewing position "
                     "(eye heights above the floor, from memory: check them for the venue's visitors) against the "
@@ -350,7 +357,7 @@ std::string viewingSection(const std::vector<VariantReview>& variants) {
                                (r.resolved ? std::string()
                                            : std::string(" (coarser than the markings ask: the image size limit was "
                                                          "reached and the contrast reads low)"));
-      out += "<figure>" + (r.image.width > 0 ? image(r.image, v.scenario.name + ": " + r.viewer.name) : "") +
+      out += "<figure>" + (r.image.width > 0 ? image(r.image, v.scenario.name + ": " + r.viewer.name, shownViewerWidth) : "") +
              "<figcaption>" + escape(text) + " " + flag(!r.seen) + "</figcaption></figure>";
     }
     out += "</div>";

@@ -61,8 +61,9 @@ double dampingRatioForRestitution(double e);
 void setInertia(Params& p, const Vec3& principal);
 
 /// Per-slot friction memory: the accumulated slip of the contact (stick
-/// spring elongation, lab frame, horizontal, metres) and whether it slid
-/// at the end of the last step.
+/// spring elongation, horizontal, metres, in lab coordinates; it turns with
+/// the slot about the vertical) and whether it slid at the end of the last
+/// step.
 struct SlotState {
   Vec3 spring = Vec3::Zero();
   bool sliding = false;
@@ -105,7 +106,8 @@ Phase classify(const Params& p, const State& s, const ContactReport& c);
 ContactReport step(const Params& p, State& s);
 
 /// Mechanical energy, J: kinetic + gravitational (table top = 0) + the
-/// elastic energy stored in the contact springs.
+/// elastic energy stored in the contact springs (each friction spring as
+/// its Coulomb limit leaves it).
 double energy(const Params& p, const State& s);
 /// The same, from the state's contact report (no extra force evaluation).
 /// The report must be that of `s` with its springs as they are now.

@@ -40,6 +40,28 @@ std::string rangeText(double lo, double hi, const std::string& unit) {
   return "allowed " + describe(lo) + " to " + describe(hi) + (unit == "-" ? "" : " " + unit);
 }
 
+// What a field accepts, for a message: its range with unit, its choices, or its form.
+template <class T>
+std::string allowedText(const Field<T>& f) {
+  switch (f.type) {
+    case FieldType::Number:
+    case FieldType::Integer: return rangeText(f.min, f.max, f.unit);
+    case FieldType::Choice: {
+      std::string options;
+      for (const auto& c : f.choices) options += (options.empty() ? "" : ", ") + c;
+      return "allowed one of: " + options;
+    }
+    case FieldType::Colour: return "allowed an sRGB colour \"#rrggbb\"";
+    case FieldType::Text: return "allowed any text";
+  }
+  return "";
+}
+
+template <class T>
+ScenarioError missingField(const Field<T>& f, const std::string& path) {
+  return ScenarioError(path, "missing required field; " + allowedText(f));
+}
+
 // ---- field constructors --------------------------------------------------
 
 // A number stored in SI at `ref`, shown in file units: file = SI / toSI.
@@ -642,6 +664,41 @@ json parseOverrideValue(const Field<T>& f, const std::string& value, const std::
   return v;
 }
 
+// An unknown key inside an item of a list, with the keys an item takes.
+template <class T>
+ScenarioError unknownItemKey(const std::string& path, const std::vector<Field<T>>& fields) {
+  std::string keys;
+  for (const auto& f : fields) keys += (keys.empty() ? "" : ", ") + f.path;
+  return ScenarioError(path, "unknown key; allowed here: " + keys);
+}
+
+// An unknown key of the scenario, with the keys allowed in the nearest
+// enclosing group that exists ("body" for "body.lenght_mm", the top level
+// for "bdy.length_mm").
+ScenarioError unknownKey(const std::string& path) {
+  std::string group = path;
+  do {
+    const auto dot = group.rfind('.');
+    group = dot == std::string::npos ? "" : group.substr(0, dot);
+  } while (!group.empty() && !isFieldGroup(group));
+  const std::string prefix = group.empty() ? "" : group + ".";
+  std::vector<std::string> keys;
+  auto add = [&](const std::string& fieldPath) {
+    if (fieldPath.rfind(prefix, 0) != 0) return;
+    const std::string rest = fieldPath.substr(prefix.size());
+    const std::string key = rest.substr(0, rest.find('.'));
+    if (std::find(keys.begin(), keys.end(), key) == keys.end()) keys.push_back(key);
+  };
+  if (group.empty()) add("dwellmark_scenario");
+  for (const auto& f : scenarioFields()) add(f.path);
+  add("markings");
+  add("analysis.trace_points");
+  std::string list;
+  for (const auto& k : keys) list += (list.empty() ? "" : ", ") + k;
+  return ScenarioError(path, "unknown key; allowed " + (group.empty() ? std::string("at the top level") : "in " + group) +
+                                 ": " + list);
+}
+
 // Parses a JSON array of items (markings, trace points), each an object of
 // known fields; `path` names the array in messages.
 template <class T>
@@ -656,12 +713,12 @@ std::vector<T> itemsFromJson(const json& array, const std::string& path, const s
     std::set<std::string> seen;
     for (auto it = item.begin(); it != item.end(); ++it) {
       const auto* f = findIn(fields, it.key());
-      if (!f) throw ScenarioError(itemPath + "." + it.key(), "unknown key");
+      if (!f) throw unknownItemKey(itemPath + "." + it.key(), fields);
       setFromJson(*f, value, *it, itemPath + "." + it.key());
       seen.insert(it.key());
     }
     for (const auto& f : fields)
-      if (f.required && !seen.count(f.path)) throw ScenarioError(itemPath + "." + f.path, "missing required field");
+      if (f.required && !seen.count(f.path)) throw missingField(f, itemPath + "." + f.path);
     items.push_back(value);
   }
   return items;
@@ -688,7 +745,7 @@ bool overrideItem(json& doc, const std::string& path, const std::string& value, 
   const auto dot = path.find('.', prefix.size());
   if (dot == std::string::npos) throw ScenarioError(path, "expected " + prefix + "INDEX.key");
   const auto* f = findIn(fields, path.substr(dot + 1));
-  if (!f) throw ScenarioError(path, "unknown key");
+  if (!f) throw unknownItemKey(path, fields);
   atPath(doc, path) = parseOverrideValue(*f, value, path);
   return true;
 }
@@ -907,20 +964,20 @@ Scenario scenarioFromJson(const json& doc) {
       const auto* f = findField(path);
       // Only known groups are entered, so the walk is never deeper than the table.
       if (!f && it->is_object()) {
-        if (!isFieldGroup(path)) throw ScenarioError(path, "unknown key");
+        if (!isFieldGroup(path)) throw unknownKey(path);
         walk(*it, path);
         continue;
       }
       if (!f && isFieldGroup(path))
         throw ScenarioError(path, "expected an object holding the " + path + ".* fields, got " + it->dump());
-      if (!f) throw ScenarioError(path, "unknown key");
+      if (!f) throw unknownKey(path);
       setFromJson(*f, s, *it, path);
       seen.insert(path);
     }
   };
   walk(doc, "");
   for (const auto& f : scenarioFields())
-    if (f.required && !seen.count(f.path)) throw ScenarioError(f.path, "missing required field");
+    if (f.required && !seen.count(f.path)) throw missingField(f, f.path);
   if (isHollow(s.body.shape) && !seen.count("body.wall_mm"))
     throw ScenarioError("body.wall_mm", "missing; a " + std::string(shapeName(s.body.shape)) + " needs its wall thickness");
   if (!seen.count("body.density_kg_m3") && !seen.count("body.mass_g"))
@@ -982,7 +1039,7 @@ void applyOverride(json& doc, const std::string& assignment) {
   if (overrideItem(doc, path, value, "markings.", markingFields())) return;
   if (overrideItem(doc, path, value, "analysis.trace_points.", tracePointFields())) return;
   const auto* f = findField(path);
-  if (!f) throw ScenarioError(path, "unknown key");
+  if (!f) throw unknownKey(path);
   atPath(doc, path) = parseOverrideValue(*f, value, path);
 }
 

@@ -1,5 +1,7 @@
-// Simulation speed: simulated seconds per wall second for the demo launch on
-// one core (issue target: at least 500 times real time at the default step).
+// Simulation speed: simulated seconds per second of one core's CPU time for
+// the demo launch (x_real_time; Google Benchmark divides a rate counter by
+// the CPU time), single-threaded. Issue target: at least 500 times real time
+// at the default step.
 #include <benchmark/benchmark.h>
 
 #include "core/scenario.hpp"

@@ -45,15 +45,17 @@ PY
   grep -q "$3" "$work/err-$1" || fail "$1: message does not name $3: $(cat "$work/err-$1")"
   [ ! -e "$work/out-$1" ] || fail "$1: wrote output"
 }
-broken missing 'del d["body"]["length_mm"]' body.length_mm
-broken negative 'd["body"]["length_mm"] = -3' body.length_mm
-broken wall 'd["body"]["wall_mm"] = 17' body.wall_mm
-broken friction 'd["surface"]["friction_kinetic"] = -0.2' surface.friction_kinetic
-broken unknown 'd["launch"]["speedy"] = 1' launch.speedy
+# Each message names the field, the value (a missing field has none) and
+# what is allowed (for an unknown key, the keys its group holds).
+broken missing 'del d["body"]["length_mm"]' 'body.length_mm: missing required field; allowed 0.2 to 1000 mm'
+broken negative 'd["body"]["length_mm"] = -3' 'body.length_mm: value -3 is out of range; allowed 0.2 to 1000 mm'
+broken wall 'd["body"]["wall_mm"] = 17' 'body.wall_mm: value 17 must be less than the outer radius 16 mm'
+broken friction 'd["surface"]["friction_kinetic"] = -0.2' 'surface.friction_kinetic: value -0.2 is out of range; allowed 0 to 2'
+broken unknown 'd["launch"]["speedy"] = 1' 'launch.speedy: unknown key; allowed in launch: pressed_end, revolution_rev_s,'
 printf '{"dwellmark_scenario": 1, "body": {' > "$work/malformed.json"
 "$bin" simulate "$work/malformed.json" --out "$work/out-malformed" 2> "$work/err-malformed" > /dev/null
 [ $? -eq 2 ] || fail "malformed JSON not exit 2"
-grep -q "not valid JSON" "$work/err-malformed" || fail "malformed JSON message"
+grep -q "malformed.json is not valid JSON: .* line 1, column" "$work/err-malformed" || fail "malformed JSON message"
 [ ! -e "$work/out-malformed" ] || fail "malformed: wrote output"
 "$bin" simulate "$src/assets/scenarios/demo.json" --out "$work/out-range" --set launch.tilt_deg=95 2> "$work/err-range" > /dev/null
 [ $? -eq 2 ] || fail "--set out of range not exit 2"

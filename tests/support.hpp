@@ -37,29 +37,40 @@ inline Quat frameAlong(const Vec3& axis) {
   return Quat(m).normalized();
 }
 
-/// Rigid steady spin with a fixed centre at tilt `alpha` (end A raised,
-/// axis azimuth 0), from the torque balance of physics.md section 3
-/// (our derivation): W^2 cos a (I_a (L/D) cos a - I_t sin a) = m g ((L/2) cos a - R sin a),
-/// relative spin W ((L/D) cos a - sin a). The centre is lowered by the
-/// static deflection m g / k so the compliant contact starts in balance.
+/// Rigid steady rolling on end B's rim at tilt `alpha` (end A raised, axis
+/// azimuth 0) with the centre fixed, or, for `circle` > 0, moving on a circle
+/// of that radius about a vertical through the point `circle` metres from the
+/// centre towards -x (the lower end's side). Our derivation, physics.md
+/// section 3 with the centre's motion added: rolling at the contact
+/// r = -(L/2) a - R d (d the rim's up direction) gives the relative spin
+/// W ((L/D) cos a - sin a - X/R), and the torque balance about the centre,
+/// with the centripetal friction m W^2 X, gives
+/// W^2 [cos a (I_a ((L/D) cos a - X/R) - I_t sin a) - m X ((L/2) sin a + R cos a)]
+///   = m g ((L/2) cos a - R sin a);
+/// for X = 0 the fixed-centre balance of physics.md. The centre is lowered by
+/// the static deflection m g / k so the compliant contact starts in balance,
+/// and the contact's stick spring holds the centripetal friction.
 struct SteadyStart {
   State state;
   double precession = 0;  ///< rad/s
   double relativeSpin = 0;
 };
 
-inline SteadyStart steadyStart(const Params& p, double alpha) {
+inline SteadyStart steadyStart(const Params& p, double alpha, double circle = 0) {
   const double L = p.body.length, R = p.body.outerRadius, D = 2 * R;
   const double Ia = p.principal.z(), It = p.principal.x(), m = p.inertia.mass, g = p.gravity;
-  const double c = std::cos(alpha), s = std::sin(alpha);
-  const double w2 = m * g * (L / 2 * c - R * s) / (c * (Ia * (L / D) * c - It * s));
+  const double c = std::cos(alpha), s = std::sin(alpha), X = circle;
+  const double w2 = m * g * (L / 2 * c - R * s) / (c * (Ia * ((L / D) * c - X / R) - It * s) - m * X * (L / 2 * s + R * c));
   SteadyStart r;
   r.precession = std::sqrt(w2);
-  r.relativeSpin = r.precession * ((L / D) * c - s);
+  r.relativeSpin = r.precession * ((L / D) * c - s - X / R);
   const Vec3 axis(c, 0, s);
   r.state.orientation = frameAlong(axis);
   r.state.position = Vec3(0, 0, L / 2 * s + R * c - m * g / p.normalStiffness);
+  r.state.velocity = Vec3(0, r.precession * X, 0);
   r.state.spinBody = r.state.orientation.conjugate() * Vec3(r.precession * up() + r.relativeSpin * axis);
+  // End B's lowest slot carries the centripetal friction -m W^2 X along x.
+  r.state.slots[slotsPerEnd].spring = Vec3(m * w2 * X / p.tangentStiffness, 0, 0);
   return r;
 }
 

@@ -57,19 +57,31 @@ Params sideRollParams(double innerRatio, double mu) {
 }  // namespace
 
 TEST_CASE("sliding cylinders, hoops and tubes start rolling when and as fast as standard mechanics says", "[dynamics][validation]") {
-  // Standard mechanics (derived from F = -mu m g, torque mu m g R, I = k m R^2):
-  // slip stops at t = v0 / (mu g (1 + 1/k)) with speed v0 / (1 + k).
-  // Solid cylinder k = 1/2: t = v0/(3 mu g), 2 v0/3; thin hoop k = 1:
-  // t = v0/(2 mu g), v0/2 (physics.md section 7, standard mechanics);
-  // thick tube k = (1 + (r/R)^2) / 2. Tolerance 1 % (the issue's target).
+  // Young & Freedman, University Physics, ch. 10 (rolling with slipping;
+  // physics.md section 7): a body with I = k m R^2 launched sliding at v0
+  // without spin feels F = -mu m g and a torque mu m g R, so its slip stops
+  // at t = v0 / (mu g (1 + 1/k)) at the speed v0 / (1 + k). Solid cylinder
+  // k = 1/2: t = v0/(3 mu g), 2 v0/3. Thin hoop k = 1: t = v0/(2 mu g), v0/2,
+  // checked on a wall near the thinnest the table allows (0.06 mm on a 15 mm
+  // radius, k = 0.996: 0.2 % from the hoop). Thick tube
+  // k = (1 + (r/R)^2) / 2. Tolerance 1 % (the issue's target).
   const double mu = 0.3, v0 = 1.0, g = k::gravity;
-  for (double ratio : {0.0, 0.6, 0.98}) {
-    const double kk = (1 + ratio * ratio) / 2;
-    const Params p = sideRollParams(ratio, mu);
+  struct Case {
+    const char* body;
+    double innerRatio, expectedTime, expectedSpeed;
+  };
+  const double thick = 0.6, kThick = (1 + thick * thick) / 2;
+  const Case cases[] = {
+      {"solid cylinder", 0.0, v0 / (3 * mu * g), 2 * v0 / 3},
+      {"thin hoop", 1 - 0.06 / 15, v0 / (2 * mu * g), v0 / 2},
+      {"thick tube r/R = 0.6", thick, v0 / (mu * g * (1 + 1 / kThick)), v0 / (1 + kThick)},
+  };
+  for (const Case& c : cases) {
+    const Params p = sideRollParams(c.innerRatio, mu);
     const RollOnset r = rollOnset(p, lyingAlongY(p, Vec3(v0, 0, 0), 0), 2.0);
-    INFO("r/R = " << ratio);
-    CHECK(r.time == Approx(v0 / (mu * g * (1 + 1 / kk))).epsilon(0.01));
-    CHECK(r.speed == Approx(v0 / (1 + kk)).epsilon(0.01));
+    INFO(c.body);
+    CHECK(r.time == Approx(c.expectedTime).epsilon(0.01));
+    CHECK(r.speed == Approx(c.expectedSpeed).epsilon(0.01));
   }
 }
 
@@ -89,40 +101,60 @@ namespace {
 
 struct Hold {
   double maxTiltError = 0;  // rad
-  double maxCentreDrift = 0;  // m
+  double maxCentreDrift = 0;  // m, from where the centre would be on the rigid steady path
   double maxSlipRatio = 0;  // slip / rim speed
 };
 
-Hold holdSteady(const Params& p, double alpha, double duration) {
-  test::SteadyStart st = test::steadyStart(p, alpha);
+// Runs the rigid steady start for `duration` and records how far the run
+// departs from it. The rim speed is R times the relative spin (the speed at
+// which the rim runs through the contact), smaller than R |w| and so the
+// stricter reference for the creep.
+Hold holdFrom(const Params& p, const test::SteadyStart& st, double alpha, double duration, double circle) {
   State s = st.state;
   const Vec3 c0 = s.position;
+  const double rimSpeed = p.body.outerRadius * std::abs(st.relativeSpin);
   Hold h;
   while (s.t < duration) {
     const ContactReport c = step(p, s);
     const AxisMotion m = axisMotion(s.orientation, s.spinWorld());
     h.maxTiltError = std::max(h.maxTiltError, std::abs(m.tilt - alpha));
-    h.maxCentreDrift = std::max(h.maxCentreDrift, std::hypot(s.position.x() - c0.x(), s.position.y() - c0.y()));
-    h.maxSlipRatio = std::max(h.maxSlipRatio, c.maxSlip() / (p.body.outerRadius * s.spinBody.norm()));
+    // The rigid path: the centre turns about (-circle, 0) at the precession rate.
+    const double turned = st.precession * s.t;
+    const Vec3 onPath(c0.x() - circle + circle * std::cos(turned), c0.y() + circle * std::sin(turned), c0.z());
+    h.maxCentreDrift = std::max(h.maxCentreDrift, std::hypot(s.position.x() - onPath.x(), s.position.y() - onPath.y()));
+    h.maxSlipRatio = std::max(h.maxSlipRatio, c.maxSlip() / rimSpeed);
   }
   return h;
+}
+
+Hold holdSteady(const Params& p, double alpha, double duration, double circle = 0) {
+  return holdFrom(p, test::steadyStart(p, alpha, circle), alpha, duration, circle);
 }
 
 }  // namespace
 
 TEST_CASE("a thin disk started in Moffatt's steady state holds it", "[dynamics][validation]") {
   // Moffatt, Nature 404, 833 (2000): a thin disk rolling on its rim at angle
-  // theta to the table precesses steadily with W^2 = 4 g / (R sin theta).
-  // The issue's target: tilt within 0.1 deg, centre within 0.5 mm for 2 s,
-  // dissipation off.
-  Scenario sc = bodyScenario(Shape::Disk, 0.0008, 0.040, 0, 7800);
+  // theta to the table, its centre fixed, precesses steadily with
+  // W^2 = 4 g / (R sin theta); rolling at the contact then gives the spin
+  // about the axis -W cos theta in the frame turning with the axis (the
+  // L -> 0 limit of physics.md section 3). The thinnest disk the table
+  // allows (0.2 mm on 40 mm, L/R = 0.01) is started exactly there, with
+  // dissipation off. The issue's target: tilt within 0.1 deg, centre within
+  // 0.5 mm for 2 s (measured 0.044 deg and 0.06 mm; a 0.8 mm disk started
+  // there departs by 0.17 deg, its own steady state being 1.1 % faster).
+  Scenario sc = bodyScenario(Shape::Disk, 0.0002, 0.040, 0, 7800);
   const Params p = makeParams(sc);
   const double theta = 30 * k::degree, alpha = k::pi / 2 - theta;
-  const test::SteadyStart st = test::steadyStart(p, alpha);
-  // Our finite-thickness start agrees with Moffatt's thin-disk limit to
-  // about L/R (2 %).
-  CHECK(st.precession * st.precession == Approx(4 * k::gravity / (p.body.outerRadius * std::sin(theta))).epsilon(0.03));
-  const Hold h = holdSteady(p, alpha, 2.0);
+  test::SteadyStart st = test::steadyStart(p, alpha);  // pose, at the static deflection
+  // Our finite-thickness steady state tends to Moffatt's: within about L/R.
+  const double moffatt = std::sqrt(4 * k::gravity / (p.body.outerRadius * std::sin(theta)));
+  CHECK(st.precession == Approx(moffatt).epsilon(0.01));
+  st.precession = moffatt;
+  st.relativeSpin = -moffatt * std::cos(theta);
+  const Vec3 axis = st.state.orientation * Vec3::UnitZ();
+  st.state.spinBody = st.state.orientation.conjugate() * Vec3(moffatt * up() + st.relativeSpin * axis);
+  const Hold h = holdFrom(p, st, alpha, 2.0, 0);
   CHECK(h.maxTiltError < 0.1 * k::degree);
   CHECK(h.maxCentreDrift < 0.5e-3);
 }
@@ -141,6 +173,29 @@ TEST_CASE("a 4:1 tube started in its steady spin holds it, with no creep", "[dyn
     CHECK(h.maxCentreDrift < 0.5e-3);
     CHECK(h.maxSlipRatio < 1e-4);
   }
+}
+
+TEST_CASE("a 4:1 tube rolling steadily with its centre on a circle keeps to it, with no creep", "[dynamics][validation]") {
+  // Our derivation (tests/support.hpp, steadyStart: physics.md section 3 with
+  // the centre on a circle): here the contact must carry the centripetal
+  // friction m W^2 X, which turns with the precession, so the creep bound is
+  // tested where friction is needed (at a fixed centre it is not). Circles of
+  // 0.5 and 1 mm need 8 to 33 % of the weight, under the static coefficient
+  // 0.45. Same targets: slip below 1e-4 of the rim speed, tilt within 0.1 deg,
+  // centre within 0.5 mm of its rigid circle for 2 s. A spring held in the
+  // lab frame instead of the contact's creeps at W F / k: 1.1e-4 to 5.9e-4
+  // of the rim speed (measured), so this check fails for it; held in the
+  // contact's frame, 2.4e-5 to 4.1e-5, as with the centre fixed.
+  Scenario sc = bodyScenario(Shape::Tube, 0.064, 0.016, 0.001, 2700);
+  const Params p = makeParams(sc);
+  for (double circleMm : {0.5, 1.0})
+    for (double tiltDeg : {2.0, 12.0, 16.0}) {
+      INFO("circle " << circleMm << " mm, tilt " << tiltDeg << " deg");
+      const Hold h = holdSteady(p, tiltDeg * k::degree, 2.0, circleMm * 1e-3);
+      CHECK(h.maxTiltError < 0.1 * k::degree);
+      CHECK(h.maxCentreDrift < 0.5e-3);
+      CHECK(h.maxSlipRatio < 1e-4);
+    }
 }
 
 TEST_CASE("a torque-free body conserves energy and angular momentum, and the intermediate axis is unstable", "[dynamics][validation]") {
@@ -224,6 +279,33 @@ TEST_CASE("conservative rolling keeps its energy", "[dynamics][validation]") {
     }
     CHECK(worst < 1e-4);
   }
+}
+
+TEST_CASE("the energy record counts only what the friction springs hold", "[dynamics][energy]") {
+  // A cylinder set down spinning slides until it rolls (Young & Freedman,
+  // ch. 10, as above); kinetic friction and the contact's damping only take
+  // energy out, so the recorded energy must never rise. Each step of sliding
+  // stretches a friction spring past its Coulomb limit before the next step
+  // cuts it back; counted as stored, that stretch added 0.5 k (v h)^2 to the
+  // record, here 8 % of the energy at touchdown (measured). Allowed rise per
+  // step: 1e-9 of the energy, far above RK4's own error on this run
+  // (measured 1.5e-16) and far below the miscount.
+  const Params p = sideRollParams(0.0, 0.25);
+  State s = lyingAlongY(p, Vec3::Zero(), 60.0);
+  double previous = energy(p, s);
+  const double e0 = previous;
+  double worstRise = 0;
+  bool slid = false;
+  while (s.t < 0.3) {
+    const ContactReport c = step(p, s);
+    slid = slid || c.maxSlip() > 0.1;
+    const double e = energy(p, s);
+    worstRise = std::max(worstRise, (e - previous) / e0);
+    previous = e;
+  }
+  CHECK(slid);
+  CHECK(worstRise < 1e-9);
+  CHECK(previous < e0);
 }
 
 TEST_CASE("the pressed end of the demo tube rises and is the one seen", "[dynamics][launch]") {

@@ -127,6 +127,33 @@ TEST_CASE("messages name the value and the allowed range", "[scenario]") {
   }
 }
 
+TEST_CASE("a missing field is refused with what it allows, an unknown key with the keys allowed there", "[scenario]") {
+  // The issue: validation names the field, the value and the allowed range.
+  // A missing field has no value: the message gives the range; an unknown
+  // key's "range" is the set of keys its group holds.
+  json d = demoDoc();
+  d["body"].erase("length_mm");
+  CHECK(refusal(d) == "body.length_mm: missing required field; allowed 0.2 to 1000 mm");
+  d = demoDoc();
+  d["body"].erase("shape");
+  CHECK(refusal(d) == "body.shape: missing required field; allowed one of: tube, rod, ring, disk");
+  d = demoDoc();
+  d["launch"]["speedy"] = 1;
+  CHECK(refusal(d) == "launch.speedy: unknown key; allowed in launch: pressed_end, revolution_rev_s, backspin, "
+                      "tilt_deg, drift_mm_s, seed");
+  d = demoDoc();
+  d["bdy"] = json::object({{"length_mm", 3}});
+  const std::string top = refusal(d);
+  CHECK(top.rfind("bdy: unknown key; allowed at the top level: dwellmark_scenario, name, description, body, ", 0) == 0);
+  CHECK(top.find("markings") != std::string::npos);
+  d = demoDoc();
+  d["markings"][1]["glow"] = true;
+  CHECK(refusal(d).rfind("markings.1.glow: unknown key; allowed here: kind, colour, end, ", 0) == 0);
+  json o = demoDoc();
+  CHECK_THROWS_WITH(applyOverride(o, "launch_spread.tilt.kindd=fixed"),
+                    Catch::StartsWith("launch_spread.tilt.kindd: unknown key; allowed in launch_spread.tilt: kind, min_deg, "));
+}
+
 TEST_CASE("set overrides apply by dotted path before validation", "[scenario]") {
   json d = demoDoc();
   applyOverride(d, "body.length_mm=140");
@@ -192,10 +219,10 @@ TEST_CASE("trace points parse, round-trip and are range-checked by name", "[scen
   CHECK(refusal(bad) == "analysis.trace_points.1.angle_deg: value 400 is out of range; allowed -360 to 360 deg");
   bad = doc;
   bad["analysis"]["trace_points"][0].erase("end");
-  CHECK(refusal(bad) == "analysis.trace_points.0.end: missing required field");
+  CHECK(refusal(bad) == "analysis.trace_points.0.end: missing required field; allowed one of: A, B");
   bad = doc;
   bad["analysis"]["trace_points"][0]["colour"] = "#ffffff";
-  CHECK(refusal(bad) == "analysis.trace_points.0.colour: unknown key");
+  CHECK(refusal(bad) == "analysis.trace_points.0.colour: unknown key; allowed here: end, angle_deg, size_mm");
   bad = doc;
   bad["analysis"]["window_s"] = 0.01;
   CHECK(refusal(bad) == "analysis.window_s: value 0.01 is out of range; allowed 0.05 to 60 s");
@@ -209,7 +236,8 @@ TEST_CASE("overrides (--set) reach analysis fields and trace point items", "[sce
   const Scenario s = scenarioFromJson(doc);
   CHECK(s.analysis.tracePoints[0].angle == Approx(k::pi / 4));
   CHECK(s.analysis.eyeTime == Approx(0.08));
-  CHECK_THROWS_WITH(applyOverride(doc, "analysis.trace_points.0.hue=1"), "analysis.trace_points.0.hue: unknown key");
+  CHECK_THROWS_WITH(applyOverride(doc, "analysis.trace_points.0.hue=1"),
+                    "analysis.trace_points.0.hue: unknown key; allowed here: end, angle_deg, size_mm");
   CHECK_THROWS_WITH(applyOverride(doc, "analysis.trace_points.3.angle_deg=1"),
                     "analysis.trace_points.3.angle_deg: no element 3 here");
 }
