@@ -10,10 +10,15 @@
 #include <CLI/CLI.hpp>
 #include <nlohmann/json.hpp>
 
+#include "core/constants.hpp"
 #include "core/scenario.hpp"
 #include "core/steady.hpp"
 
 namespace dm::app {
+
+/// File units at this boundary: metres to millimetres, rad/s to rev/s.
+constexpr double mm = 1e3;
+inline double revS(double omegaRadS) { return omegaRadS / k::twoPi; }
 
 /// The scenario and geometry flags of a subcommand.
 struct BodyFlags {

@@ -26,15 +26,6 @@ struct AdviseArgs {
   CLI::Option* maxDriftOpt = nullptr;
 };
 
-constexpr double mm = 1e3;
-
-double revS(double omega) { return omega / k::twoPi; }
-
-// "+1.5", "-2", "0" (never "-0").
-std::string signedFmt(double v, int digits) {
-  if (v == 0) v = 0;
-  return (v > 0 ? "+" : "") + fmt(v, digits);
-}
 
 nlohmann::json pointJson(const DriftPoint& p) {
   nlohmann::json j{{"precession_rev_s", revS(p.precession)}, {"pattern", p.pattern}};

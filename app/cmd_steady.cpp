@@ -26,9 +26,6 @@ struct SteadyArgs {
   CLI::Option* sweepOpt = nullptr;
 };
 
-constexpr double mm = 1e3;  // metres to millimetres
-
-double revS(double omega) { return omega / k::twoPi; }
 double deg(double a) { return a / k::degree; }
 
 // One steady state as JSON, file units.
@@ -76,12 +73,6 @@ nlohmann::json solutionJson(const Scenario& s, const Cylinder& c, const SteadySo
   for (const SteadySpin& b : sol.branches) branches.push_back(spinJson(b));
   j["branches"] = branches;
   return j;
-}
-
-// "+1.5", "-2", "0" (never "-0").
-std::string signedFmt(double v, int digits) {
-  if (v == 0) v = 0;
-  return (v > 0 ? "+" : "") + fmt(v, digits);
 }
 
 std::string driftText(const SteadySpin& s) {

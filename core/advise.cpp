@@ -69,7 +69,6 @@ WorstDrift worstOnGrid(const Cylinder& c, int spots, double from, double to, dou
   return w;
 }
 
-std::string revS(double omega) { return fmt(omega / k::twoPi, 4) + " rev/s"; }
 
 }  // namespace
 
@@ -133,8 +132,8 @@ LengthAdvice adviseLengthFor(const Cylinder& section, int spots, double from, do
   a.spots = spots;
   if (minima.empty()) {
     a.reason = orbit.rho == 0 && from < minSteadyPrecession(c, g)
-                   ? "the range starts at " + revS(from) + ", below the lowest precession that keeps the end up (" +
-                         revS(minSteadyPrecession(c, g)) +
+                   ? "the range starts at " + revSText(from) + ", below the lowest precession that keeps the end up (" +
+                         revSText(minSteadyPrecession(c, g)) +
                          "); no length changes that, it depends on the diameter and wall only"
                    : "no length from " + fmt(lo * 1e3, 4) + " to " + fmt(hi * 1e3, 4) +
                          " mm keeps a pattern state over the whole range";
@@ -226,7 +225,7 @@ PrecessionWindow precessionWindow(const Cylinder& c, int spots, double limit, do
       iBest = i;
   if (iBest < 0) {
     w.best.precession = searchFrom;
-    w.reason = "no pattern state anywhere from " + revS(searchFrom) + " to " + revS(searchTo);
+    w.reason = "no pattern state anywhere from " + revSText(searchFrom) + " to " + revSText(searchTo);
     return w;
   }
   w.best = p[iBest];
@@ -253,9 +252,9 @@ PrecessionWindow precessionWindow(const Cylinder& c, int spots, double limit, do
     if (v < std::abs(w.best.driftDegPerSecond)) w.best = driftAt(c, spots, om, g, orbit);
   }
   if (w.bands.empty())
-    w.reason = "the drift stays above " + fmt(limit, 4) + " deg/s everywhere from " + revS(searchFrom) + " to " +
-               revS(searchTo) + " (least " + fmt(std::abs(w.best.driftDegPerSecond), 4) + " deg/s at " +
-               revS(w.best.precession) + ")";
+    w.reason = "the drift stays above " + fmt(limit, 4) + " deg/s everywhere from " + revSText(searchFrom) + " to " +
+               revSText(searchTo) + " (least " + fmt(std::abs(w.best.driftDegPerSecond), 4) + " deg/s at " +
+               revSText(w.best.precession) + ")";
   return w;
 }
 

@@ -11,6 +11,8 @@
 #include <fcntl.h>
 #include <unistd.h>
 
+#include "core/constants.hpp"
+
 namespace dm {
 
 namespace fs = std::filesystem;
@@ -105,5 +107,12 @@ std::string fmt(double v, int digits) {
   std::snprintf(buf, sizeof buf, "%.*g", digits, v);
   return buf;
 }
+
+std::string signedFmt(double v, int digits) {
+  if (v == 0) v = 0;
+  return (v > 0 ? "+" : "") + fmt(v, digits);
+}
+
+std::string revSText(double omegaRadS) { return fmt(omegaRadS / k::twoPi, 4) + " rev/s"; }
 
 }  // namespace dm

@@ -43,6 +43,12 @@ void writeOutputs(const std::string& dir, const std::vector<OutputFile>& files);
 /// infinity (those throw std::domain_error: they must never reach a file).
 std::string fmt(double v, int digits = 9);
 
+/// fmt with an explicit sign: "+1.5", "-2", "0" (never "-0").
+std::string signedFmt(double v, int digits);
+
+/// An angular rate in rad/s as text in rev/s, four digits: "3.2 rev/s".
+std::string revSText(double omegaRadS);
+
 /// JSON text for a file (two-space indent, final newline). Throws
 /// std::domain_error when any number in `j` is NaN or infinite: the JSON
 /// library would otherwise write it as null without a word.

@@ -9,18 +9,18 @@ namespace dm {
 
 namespace {
 
-std::string mm(double metres) { return fmt(metres * 1e3, 4) + " mm"; }
+std::string mmText(double metres) { return fmt(metres * 1e3, 4) + " mm"; }
 std::string percent(double share) { return fmt(100 * share, 3) + " %"; }
 
 Caution tableEdge(const EnsembleSummary& e) {
   const TableCheck& t = e.table;
   Caution c{"a spinning piece can leave the table", t.reachesEdgeShare > 0 || t.leavesShare > 0, ""};
   c.text = "In " + percent(t.reachesEdgeShare) + " of " + std::to_string(e.launches - e.faults) +
-           " simulated visitor launches part of the piece reaches the edge of the " + mm(t.radius) +
+           " simulated visitor launches part of the piece reaches the edge of the " + mmText(t.radius) +
            " radius table, and in " + percent(t.leavesShare) +
-           " its centre passes the edge (without a lip it falls off). A table of radius " + mm(t.radiusHoldingAll) +
-           " holds every launch, " + mm(t.radiusHolding90) + " holds 90 %. ";
-  c.text += t.lipHeight ? "A lip at least " + mm(*t.lipHeight) +
+           " its centre passes the edge (without a lip it falls off). A table of radius " + mmText(t.radiusHoldingAll) +
+           " holds every launch, " + mmText(t.radiusHolding90) + " holds 90 %. ";
+  c.text += t.lipHeight ? "A lip at least " + mmText(*t.lipHeight) +
                               " high keeps the launches that reach the edge (centre height there plus v^2/(2 g) of its "
                               "speed, at least the outer radius: our rule, no source). "
                         : "No launch reaches the edge of this table. ";
@@ -32,9 +32,9 @@ Caution tableEdge(const EnsembleSummary& e) {
 Caution smallParts(const Scenario& s) {
   const bool fits = fitsSmallPartsCylinder(s.body);
   Caution c{"small parts, end caps and young children", fits, ""};
-  c.text = "The body (" + mm(s.body.outerDiameter) + " across, " + mm(s.body.length) + " long) " +
+  c.text = "The body (" + mmText(s.body.outerDiameter) + " across, " + mmText(s.body.length) + " long) " +
            (fits ? "could fit" : "does not fit") + " in the small-parts test cylinder of US 16 CFR 1501 (" +
-           mm(smallPartsDiameter) + " across, up to " + mm(smallPartsDepth) +
+           mmText(smallPartsDiameter) + " across, up to " + mmText(smallPartsDepth) +
            " deep; from memory): a choking hazard for children under three if it fits. End caps, plugs and any "
            "loose part are not modelled: test each one in the cylinder.";
   return c;
@@ -68,12 +68,12 @@ Caution reach(const Scenario& s, const std::vector<std::string>& unseenBy) {
   const double high = depth <= reachDepthShallow ? reachHigh : reachHighDeep;
   const bool tooDeep = depth > reachDepthMax, outOfRange = height < reachLow || height > high;
   Caution c{"reach and viewing heights", tooDeep || outOfRange || !unseenBy.empty(), ""};
-  c.text = "Table top " + mm(height) + " above the floor, spin centre " + mm(depth) + " from the edge. ";
+  c.text = "Table top " + mmText(height) + " above the floor, spin centre " + mmText(depth) + " from the edge. ";
   if (tooDeep)
-    c.text += "That is deeper than the " + mm(reachDepthMax) + " a seated visitor can reach over an obstruction. ";
+    c.text += "That is deeper than the " + mmText(reachDepthMax) + " a seated visitor can reach over an obstruction. ";
   else
-    c.text += std::string(outOfRange ? "Outside" : "Within") + " the forward reach range of " + mm(reachLow) + " to " +
-              mm(high) + " for this depth. ";
+    c.text += std::string(outOfRange ? "Outside" : "Within") + " the forward reach range of " + mmText(reachLow) + " to " +
+              mmText(high) + " for this depth. ";
   c.text += "(2010 ADA Standards section 308, from memory.) ";
   if (unseenBy.empty()) {
     c.text += "Every viewing position of the viewing check sees the spots.";

@@ -180,7 +180,6 @@ std::vector<double> rootsIn(F&& f, double lo, double hi) {
   return roots;
 }
 
-std::string revS(double omega) { return fmt(omega / k::twoPi, 4) + " rev/s"; }
 std::string degText(double a) { return fmt(a / k::degree, 4) + " deg"; }
 std::string orbitText(double rho) { return " with the centre orbiting " + fmt(rho * 1e3, 4) + " mm"; }
 
@@ -218,12 +217,12 @@ std::string noPatternAtPrecession(const Geometry& G, double omega, double omegaM
   if (omega == 0) return "a precession of 0 is no spin: there is no steady spin";
   if (rho == 0) {
     if (G.it >= G.ia && omega < omegaMin)
-      return "precession " + revS(omega) + " is below the lowest that keeps the end up, " + revS(omegaMin) +
+      return "precession " + revSText(omega) + " is below the lowest that keeps the end up, " + revSText(omegaMin) +
              " for this diameter and wall";
     if (G.it < G.ia && omega > omegaMin)
-      return "precession " + revS(omega) + " is above " + revS(omegaMin) +
+      return "precession " + revSText(omega) + " is above " + revSText(omegaMin) +
              ": a body this short (axial inertia above transverse) rolls steadily on its rim only below that";
-    return "no rolling steady state at precession " + revS(omega);
+    return "no rolling steady state at precession " + revSText(omega);
   }
   // On an orbit: the precessions the rolling states span, sampled.
   double lowest = std::numeric_limits<double>::infinity(), highest = 0;
@@ -239,12 +238,12 @@ std::string noPatternAtPrecession(const Geometry& G, double omega, double omegaM
   }
   if (!(highest > 0)) return "no tilt lets the lower rim roll steadily" + orbitText(rho);
   if (omega < lowest)
-    return "precession " + revS(omega) + " is below the lowest rolling steady precession" + orbitText(rho) +
-           ", about " + revS(lowest);
+    return "precession " + revSText(omega) + " is below the lowest rolling steady precession" + orbitText(rho) +
+           ", about " + revSText(lowest);
   if (omega > highest)
-    return "precession " + revS(omega) + " is above the highest rolling steady precession" + orbitText(rho) +
-           ", about " + revS(highest);
-  return "no rolling steady state at precession " + revS(omega) + orbitText(rho);
+    return "precession " + revSText(omega) + " is above the highest rolling steady precession" + orbitText(rho) +
+           ", about " + revSText(highest);
+  return "no rolling steady state at precession " + revSText(omega) + orbitText(rho);
 }
 
 void checkOrbit(CentreOrbit orbit) {

@@ -3,12 +3,24 @@
 #pragma once
 #include <cmath>
 #include <cstdint>
+#include <string>
+
+#include <nlohmann/json.hpp>
 
 #include "core/constants.hpp"
 #include "core/dynamics.hpp"
 #include "core/scenario.hpp"
 
 namespace dm::test {
+
+/// Practical units to SI: one millimetre in metres, one rev/s in rad/s.
+inline constexpr double mm = 1e-3;
+inline constexpr double revS = k::twoPi;
+
+/// The bundled demo scenario, parsed and validated, or as its JSON document.
+inline std::string demoPath() { return std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json"; }
+inline Scenario demo() { return loadScenario(demoPath()); }
+inline nlohmann::json demoDoc() { return readScenarioJson(demoPath()); }
 
 /// A valid scenario for a body, dissipation-free unless told otherwise.
 inline Scenario bodyScenario(Shape shape, double length, double diameter, double wall, double density = 1180) {

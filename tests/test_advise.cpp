@@ -9,13 +9,14 @@
 #include <stdexcept>
 
 #include "core/advise.hpp"
+#include "support.hpp"
 
 using namespace dm;
 
 namespace {
 
-constexpr double mm = 1e-3;
-constexpr double revS = k::twoPi;
+using test::mm;
+using test::revS;
 
 Cylinder section(double outerDiameterMm, double wallMm) {
   return {0.0, outerDiameterMm * mm / 2, (outerDiameterMm / 2 - wallMm) * mm, 0.01};

@@ -8,6 +8,7 @@
 #include "core/calibrate.hpp"
 #include "core/constants.hpp"
 #include "core/ensemble.hpp"
+#include "support.hpp"
 
 using namespace dm;
 
@@ -20,7 +21,7 @@ namespace {
 // measured; on a grippy table the settling hardly depends on the friction
 // (the calibration then says so).
 Scenario slipperyTable() {
-  Scenario s = loadScenario(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json");
+  Scenario s = test::demo();
   s.body.length = 0.060;
   s.body.outerDiameter = 0.025;
   s.body.wall = 0.002;
@@ -108,7 +109,7 @@ TEST_CASE("measurements out of range are refused by name", "[calibrate]") {
 
 TEST_CASE("the calibration report names every fitted value and residual", "[calibrate]") {
   // Two short launches of the demo: only the shape of the report matters here.
-  const Scenario s = loadScenario(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json");
+  const Scenario s = test::demo();
   CalibrationTarget t;
   t.settleTime = 0.5;
   t.spinTime = 2.0;

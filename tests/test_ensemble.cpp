@@ -6,12 +6,12 @@
 
 #include "core/constants.hpp"
 #include "core/ensemble.hpp"
+#include "support.hpp"
 
 using namespace dm;
 
 namespace {
 
-Scenario demo() { return loadScenario(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json"); }
 
 // A launch outcome with the figures the aggregates read.
 LaunchOutcome outcome(std::optional<End> visible, End pressed, std::optional<double> settle, double show) {
@@ -28,7 +28,7 @@ LaunchOutcome outcome(std::optional<End> visible, End pressed, std::optional<dou
 TEST_CASE("an ensemble gives the same bytes at any thread count", "[ensemble]") {
   // Short runs keep this fast; the seeds per launch, not the run length, are
   // what the check is about.
-  const Scenario s = demo();
+  const Scenario s = test::demo();
   EnsembleOptions options;
   options.launches = 6;
   options.duration = 3.0;
@@ -48,7 +48,7 @@ TEST_CASE("the demo's pressed end rises in at least 90 % of visitor launches", "
   // Target: at least 0.9 for the default spread (common practice, no source:
   // the end pressed down at launch is the one that rises). 100 launches of
   // 5 s: the visible end is decided in the first seconds, after the settle.
-  const Scenario s = demo();
+  const Scenario s = test::demo();
   EnsembleOptions options;
   options.launches = 100;
   options.duration = 5.0;
@@ -78,7 +78,7 @@ TEST_CASE("percentiles interpolate linearly between order statistics", "[ensembl
 }
 
 TEST_CASE("the summary counts ends, spots and the table edge as stated", "[ensemble]") {
-  Scenario s = demo();
+  Scenario s = test::demo();
   s.surface.tableRadius = 0.3;
   std::vector<LaunchOutcome> list = {outcome(End::A, End::A, 0.5, 2.0), outcome(End::B, End::B, 1.0, 0.0),
                                      outcome(End::B, End::A, std::nullopt, 1.0), outcome(std::nullopt, End::B, 2.0, 3.0)};
@@ -127,7 +127,7 @@ TEST_CASE("the summary counts ends, spots and the table edge as stated", "[ensem
 TEST_CASE("a run along the table marks when the body reaches the edge", "[ensemble]") {
   // The demo launched with a fast sideways drift slides off a small table;
   // the centre passes the edge after some part of the body reached it.
-  Scenario s = demo();
+  Scenario s = test::demo();
   s.launch.drift = 1.0;
   s.surface.tableRadius = 0.1;
   validate(s);
@@ -141,7 +141,7 @@ TEST_CASE("a run along the table marks when the body reaches the edge", "[ensemb
 }
 
 TEST_CASE("ensemble options out of range are refused", "[ensemble]") {
-  const Scenario s = demo();
+  const Scenario s = test::demo();
   EnsembleOptions options;
   options.launches = 0;
   CHECK_THROWS_AS(runEnsemble(s, options), std::invalid_argument);

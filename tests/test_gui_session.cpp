@@ -10,13 +10,13 @@
 
 #include "app/gui/model/session.hpp"
 #include "core/io.hpp"
+#include "support.hpp"
 
 using namespace dm;
 using namespace dm::gui;
 
 namespace {
 
-Scenario demo() { return loadScenario(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json"); }
 
 std::string tempPath(const std::string& name) {
   const auto dir = std::filesystem::temp_directory_path() / "dwellmark-test-gui-session";
@@ -34,7 +34,7 @@ std::string readTextFile(const std::string& path) {
 }  // namespace
 
 TEST_CASE("a slider edit restarts the run with the new value", "[gui][session]") {
-  Session session(demo());
+  Session session(test::demo());
   session.pause();
   for (int i = 0; i < 200; ++i) session.stepOnce();
   REQUIRE(session.live().steps == 200);
@@ -68,7 +68,7 @@ TEST_CASE("a slider edit restarts the run with the new value", "[gui][session]")
 }
 
 TEST_CASE("a value outside the field table's range is refused with its range", "[gui][session]") {
-  Session session(demo());
+  Session session(test::demo());
   session.pause();
   for (int i = 0; i < 50; ++i) session.stepOnce();
   const double before = session.scenario().launch.tilt;
@@ -86,7 +86,7 @@ TEST_CASE("a value outside the field table's range is refused with its range", "
 }
 
 TEST_CASE("view-only edits keep the run going", "[gui][session]") {
-  Session session(demo());
+  Session session(test::demo());
   session.pause();
   for (int i = 0; i < 100; ++i) session.stepOnce();
   const auto look = session.lookRevision();
@@ -105,7 +105,7 @@ TEST_CASE("view-only edits keep the run going", "[gui][session]") {
 }
 
 TEST_CASE("shape and mass switches keep the other values", "[gui][session]") {
-  Session session(demo());
+  Session session(test::demo());
   const double wall = session.scenario().body.wall;
   REQUIRE(session.setText("body.shape", "rod").accepted);
   CHECK(session.live().params.body.innerRadius == 0.0);
@@ -119,7 +119,7 @@ TEST_CASE("shape and mass switches keep the other values", "[gui][session]") {
 }
 
 TEST_CASE("markings are added, edited and removed", "[gui][session]") {
-  Session session(demo());
+  Session session(test::demo());
   const std::size_t n = session.scenario().paint.markings.size();
   REQUIRE(session.addMarking().accepted);
   REQUIRE(session.scenario().paint.markings.size() == n + 1);
@@ -132,7 +132,7 @@ TEST_CASE("markings are added, edited and removed", "[gui][session]") {
 }
 
 TEST_CASE("the speed factor scales simulated time per wall second", "[gui][session]") {
-  Session session(demo());
+  Session session(test::demo());
   session.setSpeed(0.5);
   const AdvanceReport r = session.advance(0.1, 10.0);
   // 0.1 s of wall time at half speed is 0.05 s simulated.
@@ -153,7 +153,7 @@ TEST_CASE("the speed factor scales simulated time per wall second", "[gui][sessi
 }
 
 TEST_CASE("the forecast is the core's run of the current scenario", "[gui][session]") {
-  Session session(demo());
+  Session session(test::demo());
   REQUIRE(session.setNumber("run.duration_s", 2.0).accepted);
   session.waitForForecast();
   const Forecast* f = session.forecast();
@@ -167,7 +167,7 @@ TEST_CASE("the forecast is the core's run of the current scenario", "[gui][sessi
 }
 
 TEST_CASE("files: save clears the unsaved mark, open refuses bad files untouched", "[gui][session]") {
-  Session session(demo(), "demo.json");
+  Session session(test::demo(), "demo.json");
   CHECK_FALSE(session.dirty());
   REQUIRE(session.setNumber("launch.revolution_rev_s", 9.5).accepted);
   CHECK(session.dirty());
@@ -185,7 +185,7 @@ TEST_CASE("files: save clears the unsaved mark, open refuses bad files untouched
 }
 
 TEST_CASE("the visitor flick draws reproducible launches within the spread", "[gui][session]") {
-  Session a(demo()), b(demo());
+  Session a(test::demo()), b(test::demo());
   REQUIRE(a.flick().accepted);
   REQUIRE(b.flick().accepted);
   CHECK(a.scenario().launch.revolution == b.scenario().launch.revolution);
@@ -200,7 +200,7 @@ TEST_CASE("the visitor flick draws reproducible launches within the spread", "[g
 
 TEST_CASE("the design review job writes the report and refuses a folder in use", "[gui][session][review]") {
   namespace fs = std::filesystem;
-  Session session(demo());
+  Session session(test::demo());
   session.pause();
   const fs::path dir = fs::path(tempPath("review"));
   fs::remove_all(dir);
@@ -250,7 +250,7 @@ TEST_CASE("the design review job writes the report and refuses a folder in use",
 }
 
 TEST_CASE("the live visitor's view finds its spots with expose's own chain", "[gui][session][observer]") {
-  Session session(demo());
+  Session session(test::demo());
   session.pause();
   // 3 s in: the demo rolls on rim B with end A raised (settled near 0.5 s).
   const long steps = long(std::llround(3.0 / session.scenario().run.timeStep()));

@@ -99,7 +99,7 @@ Analysed analyse(const SteadyMotion& r, double duration, const AnalysisSpec& spe
 }
 
 // A dissipation-free tube of 16 mm outer diameter and 1 mm wall, `lengthMm` long.
-Scenario steadyTube(double lengthMm) { return test::bodyScenario(Shape::Tube, lengthMm * 1e-3, 0.016, 0.001); }
+Scenario tubeScenario(double lengthMm) { return test::bodyScenario(Shape::Tube, lengthMm * 1e-3, 0.016, 0.001); }
 
 // A simulation started on the solver's steady motion (end A raised), with the
 // contact at its static deflection, analysed with the scenario's defaults.
@@ -452,7 +452,7 @@ TEST_CASE("on the solver's exact motion the analysis reads back the solver's N, 
   // solver's state for the worked tube at 6 rev/s, end B raised, sampled as
   // a record. Every figure is geometry, so the tolerances are those of the
   // interpolation and the bisection (measured far below them).
-  const Cylinder c = cylinderOf(steadyTube(64).body);
+  const Cylinder c = cylinderOf(tubeScenario(64).body);
   const SteadySpin spin = *steadyAtPrecession(c, 6 * k::twoPi).pattern();
   SteadyMotion m;
   m.body = c;
@@ -492,7 +492,7 @@ TEST_CASE("a simulated tube started on the steady state holds the solver's tilt,
   // Targets from the issue: window mean tilt within 0.5 deg, N within 0.01,
   // stops 360/N apart within 1 deg. Measured at the default step: 0.001 deg,
   // 1e-4 and 0.002 deg (at a 1 ms step all three miss the tilt target).
-  const Scenario sc = steadyTube(64);
+  const Scenario sc = tubeScenario(64);
   for (double f : {6.0, 8.0, 10.0}) {
     CAPTURE(f);
     const SteadySpin spin = *steadyAtPrecession(cylinderOf(sc.body), f * k::twoPi).pattern();
@@ -524,7 +524,7 @@ TEST_CASE("a simulated tube started near the steady state nutates about the solv
   // the mean 0.6 deg off at 10 rev/s: the centre then circles by about
   // 0.15 mm, a neighbouring rolling motion the centre-fixed solver does
   // not describe.
-  const Scenario sc = steadyTube(64);
+  const Scenario sc = tubeScenario(64);
   const Cylinder c = cylinderOf(sc.body);
   for (double f : {6.0, 8.0, 10.0}) {
     const SteadySpin spin = *steadyAtPrecession(c, f * k::twoPi).pattern();
@@ -603,7 +603,7 @@ TEST_CASE("four diameters long and barely tilted shows four spots; three diamete
   // under 2 deg). Simulated from the solver's state at 1.5 deg of tilt.
   for (const auto& [lengthMm, spots] : {std::pair{64.0, 4u}, std::pair{48.0, 3u}}) {
     CAPTURE(lengthMm);
-    const Scenario sc = steadyTube(lengthMm);
+    const Scenario sc = tubeScenario(lengthMm);
     const SteadySpin spin = *steadyAtTilt(cylinderOf(sc.body), 1.5 * k::degree).pattern();
     const SteadyRun r = simulateFromSteady(sc, spin, 2.0);
     REQUIRE(!r.run.fault);
@@ -703,7 +703,7 @@ TEST_CASE("the demo launch's settled windows are the solver's steady spin on the
   // of the time), and the window means average that over 1 s. With the
   // centre still (orbit 0) the same solver misses every one of these
   // windows by more than 5 deg of tilt (the audit's 5.5 to 7.5 deg).
-  const Scenario demo = loadScenario(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json");
+  const Scenario demo = test::demo();
   const RunResult run = simulate(demo);
   REQUIRE(!run.fault);
   const PatternAnalysis a = analysePattern(demo, run);

@@ -12,13 +12,13 @@
 #include "core/dynamics.hpp"
 #include "core/scenario.hpp"
 #include "tests/fuzz/scenario_input.hpp"
+#include "support.hpp"
 
 using namespace dm;
 using nlohmann::json;
 
 namespace {
 
-json demoDoc() { return readScenarioJson(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json"); }
 
 // The error a broken document raises, if any.
 std::optional<ScenarioError> refusalOf(const json& doc) {
@@ -45,7 +45,7 @@ std::string refusal(const json& doc) {
 }  // namespace
 
 TEST_CASE("the demo scenario is valid and round-trips through JSON", "[scenario]") {
-  const Scenario s = scenarioFromJson(demoDoc());
+  const Scenario s = scenarioFromJson(test::demoDoc());
   CHECK(s.body.shape == Shape::Tube);
   CHECK(s.body.length == Approx(0.131));
   CHECK(s.paint.markings.size() == 2);
@@ -56,7 +56,7 @@ TEST_CASE("the demo scenario is valid and round-trips through JSON", "[scenario]
 TEST_CASE("the default scenario is valid", "[scenario]") { CHECK_NOTHROW(validate(defaultScenario())); }
 
 TEST_CASE("broken scenarios are refused naming the field", "[scenario]") {
-  json d = demoDoc();
+  json d = test::demoDoc();
   SECTION("missing field") {
     d["body"].erase("length_mm");
     CHECK(refusedField(d) == "body.length_mm");
@@ -80,7 +80,7 @@ TEST_CASE("broken scenarios are refused naming the field", "[scenario]") {
   SECTION("unknown key, with its path") {
     d["surface"]["stickiness"] = 1;
     CHECK(refusedField(d) == "surface.stickiness");
-    json e = demoDoc();
+    json e = test::demoDoc();
     e["markings"][1]["glow"] = true;
     CHECK(refusedField(e) == "markings.1.glow");
   }
@@ -103,7 +103,7 @@ TEST_CASE("broken scenarios are refused naming the field", "[scenario]") {
   SECTION("no version, or a newer one") {
     d.erase("dwellmark_scenario");
     CHECK(refusedField(d) == "dwellmark_scenario");
-    json e = demoDoc();
+    json e = test::demoDoc();
     e["dwellmark_scenario"] = scenarioFormatVersion + 1;
     CHECK(refusedField(e) == "dwellmark_scenario");
   }
@@ -114,7 +114,7 @@ TEST_CASE("broken scenarios are refused naming the field", "[scenario]") {
 }
 
 TEST_CASE("messages name the value and the allowed range", "[scenario]") {
-  json d = demoDoc();
+  json d = test::demoDoc();
   d["launch"]["tilt_deg"] = 120;
   try {
     scenarioFromJson(d);
@@ -131,31 +131,31 @@ TEST_CASE("a missing field is refused with what it allows, an unknown key with t
   // The issue: validation names the field, the value and the allowed range.
   // A missing field has no value: the message gives the range; an unknown
   // key's "range" is the set of keys its group holds.
-  json d = demoDoc();
+  json d = test::demoDoc();
   d["body"].erase("length_mm");
   CHECK(refusal(d) == "body.length_mm: missing required field; allowed 0.2 to 1000 mm");
-  d = demoDoc();
+  d = test::demoDoc();
   d["body"].erase("shape");
   CHECK(refusal(d) == "body.shape: missing required field; allowed one of: tube, rod, ring, disk");
-  d = demoDoc();
+  d = test::demoDoc();
   d["launch"]["speedy"] = 1;
   CHECK(refusal(d) == "launch.speedy: unknown key; allowed in launch: pressed_end, revolution_rev_s, backspin, "
                       "tilt_deg, drift_mm_s, seed");
-  d = demoDoc();
+  d = test::demoDoc();
   d["bdy"] = json::object({{"length_mm", 3}});
   const std::string top = refusal(d);
   CHECK(top.rfind("bdy: unknown key; allowed at the top level: dwellmark_scenario, name, description, body, ", 0) == 0);
   CHECK(top.find("markings") != std::string::npos);
-  d = demoDoc();
+  d = test::demoDoc();
   d["markings"][1]["glow"] = true;
   CHECK(refusal(d).rfind("markings.1.glow: unknown key; allowed here: kind, colour, end, ", 0) == 0);
-  json o = demoDoc();
+  json o = test::demoDoc();
   CHECK_THROWS_WITH(applyOverride(o, "launch_spread.tilt.kindd=fixed"),
                     Catch::StartsWith("launch_spread.tilt.kindd: unknown key; allowed in launch_spread.tilt: kind, min_deg, "));
 }
 
 TEST_CASE("set overrides apply by dotted path before validation", "[scenario]") {
-  json d = demoDoc();
+  json d = test::demoDoc();
   applyOverride(d, "body.length_mm=140");
   applyOverride(d, "launch.pressed_end=B");
   applyOverride(d, "markings.0.colour=#102030");
@@ -189,7 +189,7 @@ TEST_CASE("sRGB transfer matches IEC 61966-2-1", "[scenario][colour]") {
 }
 
 TEST_CASE("analysis fields default to a 1 s window every 0.5 s and read in file units", "[scenario]") {
-  json doc = demoDoc();
+  json doc = test::demoDoc();
   CHECK(scenarioFromJson(doc).analysis.window == 1.0);
   CHECK(scenarioFromJson(doc).analysis.windowStep == 0.5);
   doc["analysis"] = {{"window_s", 2.0}, {"window_step_s", 0.25}, {"dwell_speed_mm_s", 20.0}, {"eye_time_ms", 50.0}};
@@ -201,7 +201,7 @@ TEST_CASE("analysis fields default to a 1 s window every 0.5 s and read in file 
 }
 
 TEST_CASE("trace points parse, round-trip and are range-checked by name", "[scenario]") {
-  json doc = demoDoc();
+  json doc = test::demoDoc();
   doc["analysis"]["trace_points"] = {{{"end", "B"}, {"angle_deg", 90.0}, {"size_mm", 1.5}}, {{"end", "A"}, {"angle_deg", -30.0}}};
   const Scenario s = scenarioFromJson(doc);
   REQUIRE(s.analysis.tracePoints.size() == 2);
@@ -229,7 +229,7 @@ TEST_CASE("trace points parse, round-trip and are range-checked by name", "[scen
 }
 
 TEST_CASE("overrides (--set) reach analysis fields and trace point items", "[scenario]") {
-  json doc = demoDoc();
+  json doc = test::demoDoc();
   doc["analysis"]["trace_points"] = {{{"end", "A"}, {"angle_deg", 0.0}}};
   applyOverride(doc, "analysis.trace_points.0.angle_deg=45");
   applyOverride(doc, "analysis.eye_time_ms=80");
@@ -256,17 +256,17 @@ TEST_CASE("hand edits: a repeated key, deep nesting and a group given as a value
   CHECK(refusedText(R"({"dwellmark_scenario": 1, "markings": [{"kind": "dot"}, {"end": "A", "end": "B"}]})") ==
         "markings.1.end");
   // The same key in two different objects is no repetition.
-  const std::string fine = demoDoc().dump();
+  const std::string fine = test::demoDoc().dump();
   CHECK_NOTHROW(scenarioFromJson(parseScenarioText(fine, "demo")));
   // Ten thousand nested arrays: refused at the nesting limit, not walked.
   const std::string deep =
       R"({"dwellmark_scenario": 1, "body": )" + std::string(10000, '[') + std::string(10000, ']') + "}";
   CHECK(refusedText(deep).rfind("body.0.0.0", 0) == 0);
   // Unknown groups are refused before being entered; known groups must be objects.
-  json d = demoDoc();
+  json d = test::demoDoc();
   d["lamp"] = {{"colour", {{"hue", 1}}}};
   CHECK(refusedField(d) == "lamp");
-  json e = demoDoc();
+  json e = test::demoDoc();
   e["surface"] = 0.4;
   CHECK(refusedField(e) == "surface");
 }
@@ -274,7 +274,7 @@ TEST_CASE("hand edits: a repeated key, deep nesting and a group given as a value
 TEST_CASE("the format version is read exactly, whatever JSON number type holds it", "[scenario][parse]") {
   // 4294967297 is 2^32 + 1: read as a 32-bit int it used to pass as version 1.
   for (const json& v : {json(4294967297ULL), json(0), json(-1), json(1.0), json("1"), json(nullptr)}) {
-    json d = demoDoc();
+    json d = test::demoDoc();
     d["dwellmark_scenario"] = v;
     INFO(v.dump());
     CHECK(refusedField(d) == "dwellmark_scenario");
@@ -282,7 +282,7 @@ TEST_CASE("the format version is read exactly, whatever JSON number type holds i
 }
 
 TEST_CASE("override values that used to crash or mislead are refused with the field", "[scenario][parse]") {
-  json d = demoDoc();
+  json d = test::demoDoc();
   auto refusedOverride = [&](const std::string& assignment) {
     json doc = d;
     try {
@@ -353,7 +353,7 @@ TEST_CASE("every input the fuzzer found a fault with is now refused or accepted 
 }
 
 TEST_CASE("numerics refusals name the setting and a value that is then accepted", "[scenario][numerics]") {
-  json coin = demoDoc();
+  json coin = test::demoDoc();
   applyOverride(coin, "body.shape=disk");
   applyOverride(coin, "body.length_mm=0.4");
   applyOverride(coin, "body.outer_diameter_mm=2");
@@ -368,7 +368,7 @@ TEST_CASE("numerics refusals name the setting and a value that is then accepted"
   applyOverride(coin, "run.substeps=4");
   CHECK(refusedField(coin) == "");
 
-  json rod = demoDoc();
+  json rod = test::demoDoc();
   applyOverride(rod, "body.shape=rod");
   applyOverride(rod, "body.length_mm=400");
   applyOverride(rod, "body.outer_diameter_mm=10");
@@ -386,11 +386,11 @@ TEST_CASE("numerics refusals name the setting and a value that is then accepted"
   // Then the step must resolve that spin: the default 3 substeps do not.
   applyOverride(rod, "run.substeps=3");
   CHECK(refusedField(rod) == "run.substeps");
-  const Scenario fine = scenarioFromJson(demoDoc());
+  const Scenario fine = scenarioFromJson(test::demoDoc());
   CHECK(numericsNeeds(fine).minSubsteps <= fine.run.substeps);
 
   // Rows too far apart for the 1000 substeps allowed: the cure is shorter rows.
-  json sparse = demoDoc();
+  json sparse = test::demoDoc();
   applyOverride(sparse, "run.sample_ms=100");
   applyOverride(sparse, "contact.frequency_hz=2000");
   CHECK(refusedField(sparse) == "run.substeps");
@@ -428,7 +428,7 @@ TEST_CASE("at the largest turn per step the integrator's rotation errs less than
 // The launch spread of the ensembles: per parameter a kind, bounds, mean and
 // sd in file units, checked by name like every other field.
 TEST_CASE("launch spread fields read in file units and check their bounds", "[scenario]") {
-  json d = demoDoc();
+  json d = test::demoDoc();
   d["launch_spread"] = {{"revolution", {{"kind", "uniform"}, {"min_rev_s", 5.0}, {"max_rev_s", 11.0}}},
                         {"tilt", {{"kind", "normal"}, {"min_deg", 0.0}, {"max_deg", 10.0}, {"mean_deg", 4.0}, {"sd_deg", 2.0}}},
                         {"pressed_end_a_share", 0.8}};

@@ -14,40 +14,40 @@ using namespace dm;
 
 namespace {
 
-const Cylinder tube{0.064, 0.008, 0.007, 0.01};
+const Cylinder sceneTube{0.064, 0.008, 0.007, 0.01};
 
 }  // namespace
 
 TEST_CASE("rays meet the outer surface, the faces, the bore, or pass through", "[scene]") {
   BodyHit hit;
   // Straight down onto the side: the outer surface at x = R.
-  REQUIRE(intersectBody(tube, Vec3(0.1, 0, 0.01), Vec3(-1, 0, 0), hit));
+  REQUIRE(intersectBody(sceneTube, Vec3(0.1, 0, 0.01), Vec3(-1, 0, 0), hit));
   CHECK(hit.part == SurfacePart::Outer);
   CHECK(hit.point.x() == Approx(0.008));
   CHECK(hit.t == Approx(0.092));
   CHECK(hit.normal.x() == Approx(1.0));
   // Along the axis onto end A's face annulus.
-  REQUIRE(intersectBody(tube, Vec3(0.0075, 0, 1), Vec3(0, 0, -1), hit));
+  REQUIRE(intersectBody(sceneTube, Vec3(0.0075, 0, 1), Vec3(0, 0, -1), hit));
   CHECK(hit.part == SurfacePart::FaceA);
   CHECK(hit.point.z() == Approx(0.032));
   CHECK(hit.radius == Approx(0.0075));
   // Along the axis through the bore: nothing to meet.
-  CHECK_FALSE(intersectBody(tube, Vec3(0.001, 0.001, 1), Vec3(0, 0, -1), hit));
+  CHECK_FALSE(intersectBody(sceneTube, Vec3(0.001, 0.001, 1), Vec3(0, 0, -1), hit));
   // Slanted into end B's opening: meets the bore wall inside.
-  REQUIRE(intersectBody(tube, Vec3(-0.004, 0, -0.1), Vec3(0.1, 0, 1), hit));
+  REQUIRE(intersectBody(sceneTube, Vec3(-0.004, 0, -0.1), Vec3(0.1, 0, 1), hit));
   CHECK(hit.part == SurfacePart::Bore);
   CHECK(std::hypot(hit.point.x(), hit.point.y()) == Approx(0.007));
   CHECK(hit.point.z() == Approx(0.01));
   CHECK(hit.normal.x() == Approx(-1.0));
   // Slanted less, it leaves through end A's opening.
-  CHECK_FALSE(intersectBody(tube, Vec3(0, 0, -0.1), Vec3(0.05, 0, 1), hit));
+  CHECK_FALSE(intersectBody(sceneTube, Vec3(0, 0, -0.1), Vec3(0.05, 0, 1), hit));
   // A solid rod's face is whole.
   const Cylinder rod{0.064, 0.008, 0, 0.01};
   REQUIRE(intersectBody(rod, Vec3(0.001, 0, -1), Vec3(0, 0, 1), hit));
   CHECK(hit.part == SurfacePart::FaceB);
   // Misses beside and beyond the ends.
-  CHECK_FALSE(intersectBody(tube, Vec3(0.1, 0.009, 0), Vec3(-1, 0, 0), hit));
-  CHECK_FALSE(intersectBody(tube, Vec3(0.1, 0, 0.033), Vec3(-1, 0, 0), hit));
+  CHECK_FALSE(intersectBody(sceneTube, Vec3(0.1, 0.009, 0), Vec3(-1, 0, 0), hit));
+  CHECK_FALSE(intersectBody(sceneTube, Vec3(0.1, 0, 0.033), Vec3(-1, 0, 0), hit));
 }
 
 TEST_CASE("the compiled paint gives colourAt's answer everywhere", "[scene]") {
@@ -81,7 +81,7 @@ TEST_CASE("the compiled paint gives colourAt's answer everywhere", "[scene]") {
   dot.radius = 0.003;
   dot.colour = {0, 1, 1};
   paint.markings = {patch, wide, band, stripe, dot};
-  const PaintLookup lookup(tube, paint);
+  const PaintLookup lookup(sceneTube, paint);
   std::mt19937_64 rng(7);
   std::uniform_real_distribution<double> u(0, 1);
   int checked = 0;
@@ -91,14 +91,14 @@ TEST_CASE("the compiled paint gives colourAt's answer everywhere", "[scene]") {
     const int part = i % 4;
     const double angle = k::twoPi * u(rng) - k::pi;
     hit.part = part == 0 ? SurfacePart::Outer : part == 1 ? SurfacePart::Bore : part == 2 ? SurfacePart::FaceA : SurfacePart::FaceB;
-    hit.radius = part == 0 ? tube.outerRadius : part == 1 ? tube.innerRadius
-                                                          : tube.innerRadius + u(rng) * (tube.outerRadius - tube.innerRadius);
-    const double z = part == 2 ? tube.length / 2 : part == 3 ? -tube.length / 2 : (u(rng) - 0.5) * tube.length;
+    hit.radius = part == 0 ? sceneTube.outerRadius : part == 1 ? sceneTube.innerRadius
+                                                          : sceneTube.innerRadius + u(rng) * (sceneTube.outerRadius - sceneTube.innerRadius);
+    const double z = part == 2 ? sceneTube.length / 2 : part == 3 ? -sceneTube.length / 2 : (u(rng) - 0.5) * sceneTube.length;
     hit.point = Vec3(hit.radius * std::cos(angle), hit.radius * std::sin(angle), z);
     hit.dirX = std::cos(angle);
     hit.dirY = std::sin(angle);
     SurfacePoint sp{hit.part, z, angle, hit.radius};
-    CHECK(lookup.albedoAt(hit) == colourAt(tube, paint, sp));
+    CHECK(lookup.albedoAt(hit) == colourAt(sceneTube, paint, sp));
     ++checked;
   }
   CHECK(checked == 20000);
@@ -126,7 +126,7 @@ TEST_CASE("the outer surface's plain stretch holds no marking, and the paint agr
   dot.radius = 0.003;
   dot.colour = {0, 0, 1};
   paint.markings = {patch, band, dot};
-  const PaintLookup lookup(tube, paint);
+  const PaintLookup lookup(sceneTube, paint);
   // The longest unmarked stretch runs from end B's band (z = -30 mm) to the
   // dot (z = +7 mm), less a margin of 1e-9 of the body's half size.
   const PaintLookup::Stretch plain = lookup.plainStretch();
@@ -141,14 +141,14 @@ TEST_CASE("the outer surface's plain stretch holds no marking, and the paint agr
   const double edges[] = {-0.030, 0.007, 0.013, 0.028};
   for (int i = 0; i < 20000; ++i) {
     const double angle = k::twoPi * u(rng) - k::pi;
-    const double z = i % 2 ? (u(rng) - 0.5) * tube.length : edges[i / 2 % 4] + (u(rng) - 0.5) * 2e-6;
+    const double z = i % 2 ? (u(rng) - 0.5) * sceneTube.length : edges[i / 2 % 4] + (u(rng) - 0.5) * 2e-6;
     BodyHit hit;
     hit.part = SurfacePart::Outer;
-    hit.radius = tube.outerRadius;
-    hit.point = Vec3(tube.outerRadius * std::cos(angle), tube.outerRadius * std::sin(angle), z);
+    hit.radius = sceneTube.outerRadius;
+    hit.point = Vec3(sceneTube.outerRadius * std::cos(angle), sceneTube.outerRadius * std::sin(angle), z);
     hit.dirX = std::cos(angle);
     hit.dirY = std::sin(angle);
-    const Rgb colour = colourAt(tube, paint, SurfacePoint{SurfacePart::Outer, z, angle, tube.outerRadius});
+    const Rgb colour = colourAt(sceneTube, paint, SurfacePoint{SurfacePart::Outer, z, angle, sceneTube.outerRadius});
     CHECK(lookup.albedoAt(hit) == colour);
     if (plain.contains(z)) CHECK(colour == paint.body);
   }
@@ -156,7 +156,7 @@ TEST_CASE("the outer surface's plain stretch holds no marking, and the paint agr
   Marking stripe;
   stripe.kind = MarkingKind::Stripe;
   paint.markings.push_back(stripe);
-  const PaintLookup striped(tube, paint);
+  const PaintLookup striped(sceneTube, paint);
   CHECK_FALSE(striped.plainStretch().contains(0.0));
   CHECK(striped.plainStretch().lo >= striped.plainStretch().hi);
 }

@@ -23,7 +23,6 @@ namespace fs = std::filesystem;
 
 namespace {
 
-json demoDoc() { return readScenarioJson(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json"); }
 
 // A fresh, not yet existing folder under the system's temporary folder.
 fs::path freshFolder(const std::string& name) {
@@ -154,7 +153,7 @@ TEST_CASE("simulate reports a fault with exit code 3 and writes nothing", "[simu
 }
 
 TEST_CASE("a finished run writes its four files, and the folder is then refused without force", "[simulate][cli]") {
-  Scenario s = scenarioFromJson(demoDoc());
+  Scenario s = scenarioFromJson(test::demoDoc());
   SimulateOptions o;
   o.duration = 0.05;
   const RunResult r = simulate(s, o);
@@ -189,7 +188,7 @@ struct Design {
 // The demo document changed to a design through the --set path (so the
 // sweep goes through the command line's parsing and validation).
 json designDoc(const Design& d) {
-  json doc = demoDoc();
+  json doc = test::demoDoc();
   auto set = [&](const std::string& key, double v) {
     std::ostringstream o;
     o.precision(17);
@@ -302,7 +301,7 @@ TEST_CASE("extreme designs end with a result or a named refusal, finite outputs 
   // steps, which every design pays alike (one model evaluation per RK4
   // stage); wall time belongs to the benchmarks, not to a test.
   const double duration = 0.5;
-  const Scenario demo = scenarioFromJson(demoDoc());
+  const Scenario demo = scenarioFromJson(test::demoDoc());
   const double demoStepsPerSecond = 1 / demo.run.timeStep();
   int results = 0, refusals = 0, cured = 0;
   double worstStepRatio = 0;

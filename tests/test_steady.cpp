@@ -12,17 +12,18 @@
 #include "core/kinematics.hpp"
 #include "core/roots.hpp"
 #include "core/steady.hpp"
+#include "support.hpp"
 
 using namespace dm;
 
 namespace {
 
-constexpr double mm = 1e-3;
-constexpr double revS = k::twoPi;  // rad/s per rev/s
+using test::mm;
+using test::revS;
 
 // Tube from practical units: length, outer diameter, wall (mm). Mass is
 // arbitrary: it cancels.
-Cylinder tube(double lengthMm, double outerDiameterMm, double wallMm, double massKg = 0.01) {
+Cylinder tubeMm(double lengthMm, double outerDiameterMm, double wallMm, double massKg = 0.01) {
   return {lengthMm * mm, outerDiameterMm * mm / 2, (outerDiameterMm / 2 - wallMm) * mm, massKg};
 }
 Cylinder rod(double lengthMm, double diameterMm) { return {lengthMm * mm, diameterMm * mm / 2, 0, 0.02}; }
@@ -81,7 +82,7 @@ SteadyMotion motionOf(const Cylinder& c, const SteadySpin& s, End raised, double
 // Several bodies and precessions, giving pattern and standing states.
 std::vector<std::pair<Cylinder, SteadySpin>> sampleStates() {
   std::vector<std::pair<Cylinder, SteadySpin>> out;
-  for (const Cylinder& c : {tube(64, 16, 1), tube(48, 16, 1), rod(40, 10), tube(100, 20, 3)})
+  for (const Cylinder& c : {tubeMm(64, 16, 1), tubeMm(48, 16, 1), rod(40, 10), tubeMm(100, 20, 3)})
     for (double f : {6.5, 8.0, 12.0, 25.0})
       for (const SteadySpin& s : steadyAtPrecession(c, f * revS).branches) out.emplace_back(c, s);
   return out;
@@ -98,7 +99,7 @@ TEST_CASE("worked table of physics.md section 3 (our derivation)", "[steady]") {
   // Tolerances are half a unit in the last printed digit, except N at
   // 10 rev/s: the solution is 3.33647, printed 3.337 (rounded twice), so it
   // gets 6e-4.
-  const Cylinder c = tube(64, 16, 1);
+  const Cylinder c = tubeMm(64, 16, 1);
   const double g = 9.81;
   struct Row {
     double revPerS, tiltDeg, tiltTol, N, NTol;
@@ -176,7 +177,7 @@ TEST_CASE("lowest precession that keeps the end up", "[steady]") {
   // physics.md section 3: as alpha -> 0, Omega_min^2 = m g R / I_a; a tube of
   // 16 mm OD, 1 mm wall gives about 37.3 rad/s (5.9 rev/s), whatever its length.
   for (double L : {40.0, 64.0, 120.0}) {
-    const Cylinder c = tube(L, 16, 1);
+    const Cylinder c = tubeMm(L, 16, 1);
     const double wMin = minSteadyPrecession(c);
     CHECK(wMin == Approx(37.3).margin(0.05));
     CHECK(wMin == Approx(std::sqrt(k::gravity * 0.008 / ((0.008 * 0.008 + 0.007 * 0.007) / 2))).epsilon(1e-14));
@@ -205,7 +206,7 @@ TEST_CASE("common practice: four diameters show four spots, three show three", "
   for (double D : {10.0, 16.0, 25.0})
     for (double ratio : {3.0, 4.0})
       for (double aspect : {-0.15, 0.0, 0.15}) {  // "about"
-        for (const Cylinder& c : {tube((ratio + aspect) * D, D, D / 16), rod((ratio + aspect) * D, D)}) {
+        for (const Cylinder& c : {tubeMm((ratio + aspect) * D, D, D / 16), rod((ratio + aspect) * D, D)}) {
           const double wMin = minSteadyPrecession(c);
           const double w2deg = steadyAtTilt(c, 2 * k::degree).pattern()->precession;
           for (double frac : {0.01, 0.3, 0.7, 0.99}) {
@@ -225,8 +226,8 @@ TEST_CASE("every root is found, to full precision, and the low-tilt one is the p
     Cylinder c;
     const char* what;
   };
-  for (const Case& tc : {Case{tube(64, 16, 1), "tube"}, Case{rod(40, 10), "rod"}, Case{tube(8, 20, 2), "ring"},
-                         Case{rod(2, 40), "coin"}, Case{tube(150, 12, 0.5), "long tube"}}) {
+  for (const Case& tc : {Case{tubeMm(64, 16, 1), "tube"}, Case{rod(40, 10), "rod"}, Case{tubeMm(8, 20, 2), "ring"},
+                         Case{rod(2, 40), "coin"}, Case{tubeMm(150, 12, 0.5), "long tube"}}) {
     for (double f : {0.5, 2.0, 4.0, 5.0, 5.93, 6.0, 8.0, 10.0, 20.0, 50.0, 100.0}) {
       CAPTURE(tc.what, f);
       const double w = f * revS;
@@ -279,7 +280,7 @@ TEST_CASE("two roots closer than the sampling are both found", "[steady]") {
   // diverges at both ends of (standingMin, 90 deg), so just above the
   // branch's lowest rate two roots lie about 1e-5 rad apart, far inside
   // one sampling cell; just below it there are none.
-  const Cylinder ring = tube(8, 20, 2);
+  const Cylinder ring = tubeMm(8, 20, 2);
   REQUIRE(squatBody(ring));
   const SteadyTiltLimits lim = steadyTiltLimits(ring);
   const auto rate = [&](double a) { return steadyAtTilt(ring, a).branches.at(0).precession; };
@@ -303,7 +304,7 @@ TEST_CASE("two roots closer than the sampling are both found", "[steady]") {
 }
 
 TEST_CASE("steady states at a tilt: pattern, standing, none", "[steady]") {
-  const Cylinder c = tube(64, 16, 1);
+  const Cylinder c = tubeMm(64, 16, 1);
   const SteadyTiltLimits lim = steadyTiltLimits(c);
   // physics.md section 3: the bounds are atan(I_a L / (I_t D)) and atan(L/D).
   CHECK(lim.patternMax / k::degree == Approx(31.4458).margin(1e-4));
@@ -441,7 +442,7 @@ TEST_CASE("pattern drift: -(N - n) 360/n degrees per revolution", "[steady]") {
     const double movePerVisit = std::remainder(n * stop, 360.0);
     CHECK(patternDriftDegPerRev(N, n) == Approx(movePerVisit / (n / N)).epsilon(1e-12));
   }
-  const SteadySpin s = *steadyAtPrecession(tube(64, 16, 1), 7 * revS).pattern();
+  const SteadySpin s = *steadyAtPrecession(tubeMm(64, 16, 1), 7 * revS).pattern();
   CHECK(s.nearestSpots == 4);
   CHECK(s.driftDegPerRev == Approx(-(s.spotsPerRev - 4) * 90).epsilon(1e-14));
   CHECK(s.driftDegPerSecond == Approx(s.driftDegPerRev * 7).epsilon(1e-14));
@@ -488,15 +489,15 @@ TEST_CASE("the spots of the prescribed motion drift as reported", "[steady]") {
 }
 
 TEST_CASE("mass cancels", "[steady]") {
-  const SteadySolution a = steadyAtPrecession(tube(64, 16, 1, 0.001), 9 * revS);
-  const SteadySolution b = steadyAtPrecession(tube(64, 16, 1, 5.0), 9 * revS);
+  const SteadySolution a = steadyAtPrecession(tubeMm(64, 16, 1, 0.001), 9 * revS);
+  const SteadySolution b = steadyAtPrecession(tubeMm(64, 16, 1, 5.0), 9 * revS);
   REQUIRE(a.branches.size() == b.branches.size());
   for (std::size_t i = 0; i < a.branches.size(); ++i) CHECK(a.branches[i].tilt == b.branches[i].tilt);
-  CHECK(minSteadyPrecession(tube(64, 16, 1, 0.001)) == minSteadyPrecession(tube(64, 16, 1, 5.0)));
+  CHECK(minSteadyPrecession(tubeMm(64, 16, 1, 0.001)) == minSteadyPrecession(tubeMm(64, 16, 1, 5.0)));
 }
 
 TEST_CASE("bad input is refused", "[steady]") {
-  const Cylinder c = tube(64, 16, 1);
+  const Cylinder c = tubeMm(64, 16, 1);
   CHECK_THROWS_AS(steadyAtPrecession(c, -1), std::invalid_argument);
   CHECK_THROWS_AS(steadyAtPrecession(c, std::nan("")), std::invalid_argument);
   CHECK_THROWS_AS(steadyAtTilt(c, -0.01), std::invalid_argument);
@@ -546,7 +547,7 @@ TEST_CASE("with the centre still the solver gives the previous solver's answers 
   std::vector<SteadySpin> found;
   for (const Branch& b : branches) {
     CAPTURE(b.L, b.D, b.revPerS, b.tilt);
-    const Cylinder c = tube(b.L, b.D, b.wall);
+    const Cylinder c = tubeMm(b.L, b.D, b.wall);
     // Every branch at this input appears in the table in order; find this one.
     const SteadySolution still = steadyAtPrecession(c, b.revPerS * revS);
     const SteadySolution zero = steadyAtPrecession(c, b.revPerS * revS, CentreOrbit{0.0});
@@ -579,7 +580,7 @@ TEST_CASE("with the centre still the solver gives the previous solver's answers 
                           ByTilt{8, 20, 2, 17, 0x1.6c6cebc658b76p+4, 0x1.7141556b032ep-4},
                           ByTilt{40, 10, 5, 86, 0x1.e7f737129778ap+5, -0x1.6fe43babbd764p-1}}) {
     CAPTURE(t.L, t.tiltDeg);
-    const SteadySolution s = steadyAtTilt(tube(t.L, t.D, t.wall), t.tiltDeg * k::degree);
+    const SteadySolution s = steadyAtTilt(tubeMm(t.L, t.D, t.wall), t.tiltDeg * k::degree);
     REQUIRE(s.branches.size() == 1);
     CHECK(s.branches[0].precession == t.precession);
     CHECK(s.branches[0].spotsPerRev == t.N);
@@ -605,7 +606,7 @@ double orbitBalance(const Cylinder& c, double omega, double a, double rho, doubl
 // States on orbits of either sign, pattern and standing, on several bodies.
 std::vector<std::pair<Cylinder, SteadySpin>> orbitingStates() {
   std::vector<std::pair<Cylinder, SteadySpin>> out;
-  for (const Cylinder& c : {tube(64, 16, 1), tube(131, 32, 1.6), rod(40, 10), tube(8, 20, 2)})
+  for (const Cylinder& c : {tubeMm(64, 16, 1), tubeMm(131, 32, 1.6), rod(40, 10), tubeMm(8, 20, 2)})
     for (double rhoMm : {-5.0, -1.5, 2.0, 4.0})
       for (double f : {4.5, 6.5, 9.0, 25.0})
         for (const SteadySpin& s : steadyAtPrecession(c, f * revS, CentreOrbit{rhoMm * mm}).branches)
@@ -620,7 +621,7 @@ TEST_CASE("on an orbit every root of the torque balance is found and N follows t
   // balance on a 100001-point grid over 0..90 deg (no pair of roots is that
   // close in these cases); N = (b - rho)/R; the pattern state is the
   // lowest-tilt root with the contact circle's offset b > 0.
-  for (const Cylinder& c : {tube(64, 16, 1), tube(131, 32, 1.6), rod(40, 10), tube(8, 20, 2)})
+  for (const Cylinder& c : {tubeMm(64, 16, 1), tubeMm(131, 32, 1.6), rod(40, 10), tubeMm(8, 20, 2)})
     for (double rhoMm : {-8.0, -3.5, -0.5, 0.5, 3.0, 10.0})
       for (double f : {3.0, 4.5, 6.5, 9.0, 25.0}) {
         CAPTURE(c.length, rhoMm, f);
@@ -729,7 +730,7 @@ TEST_CASE("the torque balance holds on the prescribed motion, centre still or or
 }
 
 TEST_CASE("a bad orbit is refused", "[steady]") {
-  const Cylinder c = tube(64, 16, 1);
+  const Cylinder c = tubeMm(64, 16, 1);
   CHECK_THROWS_AS(steadyAtPrecession(c, 40, CentreOrbit{std::nan("")}), std::invalid_argument);
   CHECK_THROWS_AS(steadyAtTilt(c, 0.2, CentreOrbit{std::numeric_limits<double>::infinity()}), std::invalid_argument);
   CHECK(steady_input::orbit.contains(-1000));

@@ -6,6 +6,7 @@
 
 #include "core/constants.hpp"
 #include "render/viewing_check.hpp"
+#include "support.hpp"
 
 using namespace dm;
 
@@ -13,7 +14,7 @@ namespace {
 
 // The demo tube in its exact steady spin at `revPerS` (its lowest is 4.1 rev/s).
 Scenario steadyDemo(double revPerS = 6) {
-  Scenario s = loadScenario(std::string(DWELLMARK_ASSETS) + "/scenarios/demo.json");
+  Scenario s = test::demo();
   s.observer.steadyPrecession = revPerS * k::twoPi;
   s.observer.start = 0;
   s.observer.exposure = 0.3;
