@@ -107,7 +107,8 @@ TEST_CASE("measurements out of range are refused by name", "[calibrate]") {
   CHECK(refused(bad) == "timing_s");
 }
 
-TEST_CASE("the calibration report names every fitted value and residual", "[calibrate]") {
+// [slow]: a whole fit; the sanitizer stage runs the same small calibration from the command line.
+TEST_CASE("the calibration report names every fitted value and residual", "[calibrate][slow]") {
   // Two short launches of the demo: only the shape of the report matters here.
   const Scenario s = test::demo();
   CalibrationTarget t;

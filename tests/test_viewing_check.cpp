@@ -42,7 +42,9 @@ TEST_CASE("viewing positions come from the scenario's viewing section", "[viewin
   CHECK(list[2].name == "seated visitor");
 }
 
-TEST_CASE("visitors above the table see the steady spin's spots and an eye below it sees none", "[viewing_check]") {
+// [slow]: 640 px views; the sanitizer stage runs viewingCheck through its small review instead.
+TEST_CASE("visitors above the table see the steady spin's spots and an eye below it sees none",
+          "[viewing_check][slow]") {
   Scenario s = steadyDemo();
   s.viewing.tableHeight = 1.1;  // the child's 1.0 m eye is below the table top
   const Observation seen = observeSteady(s);

@@ -6,7 +6,7 @@ set -euo pipefail
 
 packages=(
   # toolchain
-  build-essential cmake pkg-config git python3
+  build-essential cmake ninja-build pkg-config git python3
   # core
   libeigen3-dev nlohmann-json3-dev libcli11-dev libtbb-dev
   # render (CPU) and images
