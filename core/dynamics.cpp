@@ -265,10 +265,17 @@ Phase classify(const Params& p, const State& s, const ContactReport& c) {
   if (c.activeA + c.activeB == 0) return Phase::Airborne;
   const double spin = s.spinBody.norm();
   if (s.velocity.norm() < k::restSpeed && spin < k::restSpin) return Phase::AtRest;
+  if ((c.activeA >= 3 && c.activeB == 0) || (c.activeB >= 3 && c.activeA == 0)) {
+    // On an end face the rim slides whenever the piece spins about the
+    // vertical (drilling, which the pivot friction resists); the piece
+    // slides across the table when the face's centre moves.
+    const double sign = c.activeA >= 3 ? 1.0 : -1.0;
+    const Vec3 lever = sign * (p.body.length / 2) * (s.orientation * Vec3::UnitZ());
+    const Vec3 v = s.velocity + s.spinWorld().cross(lever);
+    return std::hypot(v.x(), v.y()) > k::rollingSlip ? Phase::Sliding : Phase::StandingEnd;
+  }
   if (c.maxSlip() > k::rollingSlip) return Phase::Sliding;
   if (c.activeA > 0 && c.activeB > 0) return Phase::LyingFlat;
-  if (c.activeA >= 3 || c.activeB >= 3) return Phase::StandingEnd;
-  (void)p;
   return c.activeA > 0 ? Phase::RollingA : Phase::RollingB;
 }
 

@@ -369,6 +369,38 @@ TEST_CASE("the contact's damping gives the chosen restitution", "[dynamics][cont
   }
 }
 
+TEST_CASE("a tube spinning on its end face stands, and slides while its face moves", "[dynamics][contact]") {
+  // Common practice, no source: spinning in place on a face is standing on
+  // it (the face's rim slides, the face's centre does not); a face that moves
+  // across the table slides. The friction on the end ring slows the spin.
+  const Params p = makeParams(bodyScenario(Shape::Tube, 0.05, 0.04, 0.003));
+  auto spinUpright = [&](double sideways, double& spinStart, double& spinEnd) {
+    State s;
+    s.orientation = test::frameAlong(-Vec3::UnitZ());  // end B down
+    s.position = Vec3(0, 0, p.body.length / 2 - 1e-6);
+    s.velocity = Vec3(sideways, 0, 0);
+    s.spinBody = s.orientation.conjugate() * Vec3(0, 0, 5 * k::twoPi);  // 5 rev/s about the vertical
+    std::vector<Phase> phases;
+    while (s.t < 0.1) {
+      const ContactReport c = step(p, s);
+      if (s.t < 0.02) continue;  // the contact springs take up the weight
+      if (phases.empty()) spinStart = s.spinWorld().z();
+      phases.push_back(classify(p, s, c));
+    }
+    spinEnd = s.spinWorld().z();
+    return phases;
+  };
+  double spin0 = 0, spin1 = 0;
+  const std::vector<Phase> inPlace = spinUpright(0, spin0, spin1);
+  REQUIRE(!inPlace.empty());
+  CHECK(std::count(inPlace.begin(), inPlace.end(), Phase::StandingEnd) == long(inPlace.size()));
+  CHECK(spin1 < spin0);
+  CHECK(spin1 > 0);
+  const std::vector<Phase> moving = spinUpright(0.3, spin0, spin1);
+  REQUIRE(!moving.empty());
+  CHECK(moving.front() == Phase::Sliding);
+}
+
 TEST_CASE("a rod stands on its end face, and topples and lies flat when tipped far enough", "[dynamics][contact]") {
   // Statics (common practice, no source): a cylinder on its end is stable
   // while its centre is over the face, tan(tilt from vertical) < R / (L/2).
