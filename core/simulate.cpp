@@ -44,8 +44,7 @@ RunSummary summarise(const Params& p, const Trajectory& tr, End pressedEnd) {
     const Sample& s = tr.samples[i];
     const Vec3 d = s.position - start;
     r.maxExcursion = std::max(r.maxExcursion, std::hypot(d.x(), d.y()));
-    // Surface speed every 10 steps: the maximum changes slowly.
-    if (i % 10 == 0) r.maxSurfaceSpeed = std::max(r.maxSurfaceSpeed, fastestSurfaceSpeed(p.body, s.orientation, s.velocity, s.spin));
+    r.maxSurfaceSpeed = std::max(r.maxSurfaceSpeed, fastestSurfaceSpeed(p.body, s.orientation, s.velocity, s.spin));
   }
   return r;
 }

@@ -15,6 +15,7 @@
 #include "core/constants.hpp"
 #include "core/export.hpp"
 #include "core/simulate.hpp"
+#include "core/kinematics.hpp"
 #include "support.hpp"
 
 using namespace dm;
@@ -150,6 +151,21 @@ TEST_CASE("simulate reports a fault with exit code 3 and writes nothing", "[simu
   CHECK(complaint.str().find("nothing was written") != std::string::npos);
   CHECK(said.str().empty());
   CHECK_FALSE(fs::exists(out));
+}
+
+TEST_CASE("the fastest surface speed is the largest over every output sample", "[simulate][events]") {
+  // The demo's first 2 s: release, the sliding transient and rolling.
+  const Scenario s = test::demo();
+  SimulateOptions o;
+  o.duration = 2.0;
+  const RunResult r = simulate(s, o);
+  REQUIRE(r.trajectory.samples.size() > 1000);
+  double fastest = 0;
+  for (const Sample& x : r.trajectory.samples)
+    fastest = std::max(fastest, fastestSurfaceSpeed(r.params.body, x.orientation, x.velocity, x.spin));
+  CHECK(r.summary.maxSurfaceSpeed == fastest);
+  const Sample& first = r.trajectory.samples.front();
+  CHECK(fastest >= fastestSurfaceSpeed(r.params.body, first.orientation, first.velocity, first.spin));
 }
 
 TEST_CASE("a finished run writes its four files, and the folder is then refused without force", "[simulate][cli]") {
