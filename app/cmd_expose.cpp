@@ -19,7 +19,7 @@ struct ExposeArgs {
   std::string out;
   std::vector<std::string> sets;
   std::optional<std::string> view, mode;
-  std::optional<double> eyeHeight, eyeDistance, start, exposure, steadyPrecession;
+  std::optional<double> eyeHeight, eyeDistance, start, exposure, steadyPrecession, steadyOrbit;
   std::optional<int> size;
   int threads = 0;
   bool pfm = false;
@@ -38,6 +38,7 @@ std::vector<std::string> flagOverrides(const ExposeArgs& a) {
   if (a.exposure) sets.push_back("observer.exposure_s=" + number(*a.exposure));
   if (a.size) sets.push_back("observer.image_size_px=" + std::to_string(*a.size));
   if (a.steadyPrecession) sets.push_back("observer.steady_precession_rev_s=" + number(*a.steadyPrecession));
+  if (a.steadyOrbit) sets.push_back("observer.steady_orbit_mm=" + number(*a.steadyOrbit));
   return sets;
 }
 
@@ -115,6 +116,9 @@ void addExposeCommand(CLI::App& app, Commands& commands) {
   sub->add_option("--size", args->size, "image width and height in px (observer.image_size_px)");
   sub->add_option("--steady-precession-rev-s", args->steadyPrecession,
                   "show the exact steady spin at this precession instead of a run (observer.steady_precession_rev_s)");
+  sub->add_option("--steady-orbit-mm", args->steadyOrbit,
+                  "that steady spin with the centre circling the spin axis this far from it, + towards the raised end "
+                  "(observer.steady_orbit_mm)");
   sub->add_option("--set", args->sets, "override a scenario field: key.path=value (repeatable)");
   addThreadsOption(sub, args->threads);
   sub->add_flag("--pfm", args->pfm, "also write the linear float image exposure.pfm");

@@ -14,6 +14,7 @@
 #include "core/constants.hpp"
 #include "core/dynamics.hpp"
 #include "core/launch.hpp"
+#include "core/steady.hpp"
 
 namespace dm {
 
@@ -340,6 +341,10 @@ std::vector<Field<Scenario>> buildScenarioFields() {
   f.push_back(number<S>("observer.steady_precession_rev_s", "rev/s", 0, 100, revS,
                         [](S& s) -> double& { return s.observer.steadyPrecession; },
                         "above 0: show the exact steady spin at this precession (pressed end raised) instead of the run"));
+  f.push_back(number<S>("observer.steady_orbit_mm", "mm", steady_input::orbit.min, steady_input::orbit.max, mm,
+                        [](S& s) -> double& { return s.observer.steadyOrbit; },
+                        "with steady_precession_rev_s: the centre circling the spin axis this far from it, + towards "
+                        "the raised end (0: the centre still)"));
   f.push_back(number<S>("observer.frame_rate_hz", "Hz", 0, 1000, 1, [](S& s) -> double& { return s.observer.frameRate; },
                         "camera video frame rate; 0 for a single exposure"));
   f.push_back(integer<S>("observer.frame_count", "-", 1, 600, [](S& s) -> int& { return s.observer.frameCount; },
@@ -751,9 +756,13 @@ bool overrideItem(json& doc, const std::string& path, const std::string& value, 
 }
 
 // Cross-field rules of the observer: the eye's window must hold its whole
-// temporal response, and a video frame cannot expose longer than the frame
-// interval.
+// temporal response, a video frame cannot expose longer than the frame
+// interval, and a steady orbit belongs to a steady spin.
 void validateObserver(const ObserverSpec& o) {
+  if (o.steadyOrbit != 0 && o.steadyPrecession <= 0)
+    throw ScenarioError("observer.steady_orbit_mm", "value " + describe(o.steadyOrbit * 1e3) +
+                                                        " mm needs observer.steady_precession_rev_s above 0; allowed 0 "
+                                                        "when the observer shows the simulated run");
   if (o.mode == ExposureMode::Eye && o.exposure < k::minEyeWindow)
     throw ScenarioError("observer.exposure_s", "value " + describe(o.exposure) + " s is too short for observer.mode eye; "
                                                "allowed " + describe(k::minEyeWindow) + " to 10 s (the eye's response lasts about that long)");

@@ -108,6 +108,7 @@ struct ObserverSpec {
   int imageSize = 512;            ///< image width and height, px
   double spotThreshold = 0.02;    ///< Weber contrast detection threshold, -
   double steadyPrecession = 0;    ///< > 0: show the exact steady spin at this precession, rad/s; 0: the simulated run
+  double steadyOrbit = 0;         ///< the centre orbit of that steady spin, m (CentreOrbit: + towards the raised end)
   double frameRate = 0;           ///< camera video frame rate, Hz; 0 = one exposure only
   int frameCount = 1;             ///< camera video: number of frames, each exposure_s long, 1/frame_rate apart
 };

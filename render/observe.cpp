@@ -5,6 +5,7 @@
 
 #include "core/colour.hpp"
 #include "core/constants.hpp"
+#include "core/io.hpp"
 #include "core/kinematics.hpp"
 
 namespace dm {
@@ -12,22 +13,24 @@ namespace dm {
 Observation observeSteady(const Scenario& s) {
   const Cylinder body = cylinderOf(s.body);
   const double precession = s.observer.steadyPrecession;
-  const PatternResult pattern = patternAtPrecession(body, precession);
+  const CentreOrbit orbit{s.observer.steadyOrbit};
+  const PatternResult pattern = patternAtPrecession(body, precession, orbit);
   if (!pattern.found)
     throw ScenarioError("observer.steady_precession_rev_s",
-                        "value " + std::to_string(precession / k::twoPi) +
-                            " rev/s has no steady rolling state for this body; the lowest is " +
-                            std::to_string(minSteadyPrecession(body) / k::twoPi) + " rev/s");
+                        "value " + fmt(precession / k::twoPi, 6) + " rev/s has no steady rolling state for this body" +
+                            (orbit.rho == 0 ? std::string() : " with the centre orbiting " + fmt(orbit.rho * 1e3, 6) + " mm") +
+                            "; the lowest with the centre still is " + fmt(minSteadyPrecession(body) / k::twoPi, 6) +
+                            " rev/s");
   SteadyMotion motion;
   motion.body = body;
   motion.spin = pattern.spin;
   motion.raised = s.launch.pressedEnd;
   Observation seen;
   seen.poses = [motion](double t) { return motion.poseAt(t); };
-  // By symmetry the top point Q sits as far from the centre's vertical as
-  // the contact point, at the ceiling height.
+  // The raised end's top circles the spin axis at the ceiling height, at
+  // |b + rho| (with the centre still, as far out as the floor contact).
   seen.ring.centre = Vec3(motion.centre.x(), motion.centre.y(), pattern.spin.ceilingHeight);
-  seen.ring.radius = pattern.spin.contactRadius;
+  seen.ring.radius = pattern.spin.ringRadius;
   seen.visibleEnd = motion.raised;
   seen.steady = pattern.spin;
   return seen;
@@ -129,6 +132,8 @@ nlohmann::json spotsJson(const Scenario& s, const Observation& seen, const Expos
     doc["steady_precession_rev_s"] = finite(seen.steady->precession / k::twoPi);
     doc["steady_tilt_deg"] = finite(seen.steady->tilt / k::degree);
     doc["spots_per_rev"] = finite(seen.steady->spotsPerRev);
+    doc["steady_orbit_mm"] = finite(seen.steady->orbit * 1e3);
+    doc["top_speed_mm_s"] = finite(seen.steady->topSpeed * 1e3);
   }
   return doc;
 }

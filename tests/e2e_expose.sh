@@ -29,6 +29,19 @@ assert s["sampling"]["largest_step_px"] <= 0.5
 PY
 grep -q "wrote .*spots.json" "$work/log" || fail "does not say where outputs went"
 
+# The same spin with the centre circling 3 mm towards the floor contact: the
+# raised end's top circles 6 mm further in (|b + rho| against |b - rho|).
+"$bin" expose "$demo" --out "$work/orbit" --steady-precession-rev-s 6 --steady-orbit-mm -3 --mode camera \
+  --exposure-s 0.2 --size 96 --set observer.view_span_mm=200 > /dev/null || fail "orbit expose exited $?"
+python3 - "$work/steady/spots.json" "$work/orbit/spots.json" <<'PY' || fail "orbit spots.json"
+import json, math, sys
+still, orbit = (json.load(open(p)) for p in sys.argv[1:3])
+assert still["steady_orbit_mm"] == 0 and still["top_speed_mm_s"] == 0, still
+assert orbit["steady_orbit_mm"] == -3, orbit
+assert abs(orbit["top_speed_mm_s"] - 2 * 2 * math.pi * 6 * 3) < 1e-9, orbit
+assert orbit["ring_radius_mm"] < still["ring_radius_mm"] - 3, (orbit["ring_radius_mm"], still["ring_radius_mm"])
+PY
+
 # The same output at one thread and at two.
 "$bin" expose "$demo" --out "$work/one" --steady-precession-rev-s 6 --mode camera --exposure-s 0.2 --size 96 \
   --set observer.view_span_mm=200 --threads 1 > /dev/null || fail "one-thread expose"
@@ -60,5 +73,7 @@ bad view "observer.view" --view sideways
 bad eye "observer.eye_height_mm" --view visitor --eye-height-mm 9000
 bad window "observer.exposure_s" --mode eye --exposure-s 0.05
 bad slow "observer.steady_precession_rev_s" --steady-precession-rev-s 1
+bad orphan "observer.steady_orbit_mm" --steady-orbit-mm -3
+bad far "observer.steady_orbit_mm" --steady-precession-rev-s 6 --steady-orbit-mm 5000
 bad threads "threads" --threads 2000
 echo "e2e_expose: ok"

@@ -242,6 +242,41 @@ TEST_CASE("half-integer N doubles the spots and weakens them; an irrational N wa
   CHECK(none.spots.empty());
 }
 
+TEST_CASE("a circling centre draws the ring in, and a few mm of it leaves the spots standing", "[spots]") {
+  // Our derivation (README, physics notes, the centre orbit): with the centre
+  // circling at rho the raised end's top circles at |b + rho| and passes the
+  // top at 2 Omega |rho| instead of stopping there. A mark is near the top
+  // only while the relative spin carries its patch through, a few ms, so at
+  // 2 mm of orbit it moves under half a millimetre there: the spots stay.
+  const double length = 0.064;
+  const double lowest = minSteadyPrecession(cylinderOf(steadyScenario(length, 10).body)) / k::twoPi;
+  const Scenario still = steadyScenario(length, 1.03 * lowest);
+  Scenario circling = still;
+  circling.observer.steadyOrbit = -0.002;
+  validate(circling);
+  const Observation seen = observeSteady(circling);
+  REQUIRE(seen.steady);
+  CHECK(seen.ring.radius == Approx(seen.steady->ringRadius));
+  CHECK(seen.ring.radius == Approx(seen.steady->contactRadius - 0.004).margin(1e-9));  // |b - 2 mm| vs |b + 2 mm|
+  CHECK(seen.steady->topSpeed == Approx(2 * seen.steady->precession * 0.002));
+  const std::vector<ImageSpot> sharp = redSpots(spotsOf(still));
+  const std::vector<ImageSpot> circled = redSpots(spotsOf(circling));
+  REQUIRE(sharp.size() == 4);
+  REQUIRE(circled.size() == 4);
+  double weakestSharp = 1;
+  for (const ImageSpot& s : sharp) weakestSharp = std::min(weakestSharp, std::abs(s.contrast));
+  for (const ImageSpot& s : circled) {
+    INFO("N " << seen.steady->spotsPerRev << ", top speed " << seen.steady->topSpeed << " m/s");
+    CHECK(std::abs(s.contrast) > 0.8 * weakestSharp);
+    CHECK(s.radius <= seen.ring.radius + 0.00094);  // on the smaller ring, within two pixels
+  }
+  // Without a steady spin there is no orbit to show.
+  Scenario orphan = still;
+  orphan.observer.steadyPrecession = 0;
+  orphan.observer.steadyOrbit = -0.002;
+  CHECK_THROWS_WITH(validate(orphan), Catch::Contains("observer.steady_orbit_mm"));
+}
+
 TEST_CASE("spot contrast seen from above and from visitors' eyes", "[spots][slow]") {
   const double length = 0.064;
   Scenario s = steadyScenario(length, 1.03 * minSteadyPrecession(cylinderOf(steadyScenario(length, 10).body)) / k::twoPi);
