@@ -5,7 +5,10 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 bash third_party/install-deps.sh
-cmake -S . -B build -DCMAKE_BUILD_TYPE=Release >/dev/null
+# Ninja, as tests/run-all.sh uses; a build folder made earlier keeps its generator.
+generator=-GNinja
+[ ! -f build/CMakeCache.txt ] || generator=
+cmake -S . -B build $generator -DCMAKE_BUILD_TYPE=Release >/dev/null
 cmake --build build -j"$(nproc 2>/dev/null || echo 2)"
 demo=assets/scenarios/demo.json
 out=out/demo
