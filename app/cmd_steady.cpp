@@ -28,8 +28,15 @@ struct SteadyArgs {
 
 double deg(double a) { return a / k::degree; }
 
+// "9/2", or empty without a fraction pattern.
+std::string ratioText(const FractionPattern& f) {
+  return f.spots > 0 ? std::to_string(f.spots) + "/" + std::to_string(f.revsPerVisit) : std::string();
+}
+
 // One steady state as JSON, file units.
 nlohmann::json spinJson(const SteadySpin& s) {
+  const FractionPattern& f = s.fraction;
+  const auto orNull = [&f](const nlohmann::json& v) { return f.spots > 0 ? v : nlohmann::json(nullptr); };
   return {{"pattern", s.pattern},
           {"tilt_deg", deg(s.tilt)},
           {"precession_rev_s", revS(s.precession)},
@@ -38,6 +45,10 @@ nlohmann::json spinJson(const SteadySpin& s) {
           {"nearest_spots", s.nearestSpots},
           {"drift_deg_per_rev", jsonNumber(s.driftDegPerRev)},
           {"drift_deg_s", jsonNumber(s.driftDegPerSecond)},
+          {"n_ratio", orNull(ratioText(f))},
+          {"ratio_spots", orNull(f.spots)},
+          {"revs_per_visit", orNull(f.revsPerVisit)},
+          {"ratio_drift_deg_per_rev", orNull(jsonNumber(f.driftDegPerRev))},
           {"contact_radius_mm", s.contactRadius * mm},
           {"ring_radius_mm", s.ringRadius * mm},
           {"centre_height_mm", s.centreHeight * mm},
@@ -77,8 +88,18 @@ nlohmann::json solutionJson(const Scenario& s, const Cylinder& c, const SteadySo
 
 std::string driftText(const SteadySpin& s) {
   if (s.nearestSpots == 0) return "fewer than half a spot per revolution: no spot pattern";
-  return "drift of the " + std::to_string(s.nearestSpots) + "-spot pattern " + signedFmt(s.driftDegPerRev, 4) +
-         " deg per revolution, " + signedFmt(s.driftDegPerSecond, 4) + " deg/s";
+  std::string text = "drift of the " + std::to_string(s.nearestSpots) + "-spot pattern " +
+                     signedFmt(s.driftDegPerRev, 4) + " deg per revolution, " + signedFmt(s.driftDegPerSecond, 4) +
+                     " deg/s";
+  const FractionPattern& f = s.fraction;
+  if (f.spots == 0)
+    text += "\n    N is near no p/q with at most " + std::to_string(maxRevsPerVisit) +
+            " revolutions between visits: the stops creep round the ring";
+  else if (f.revsPerVisit > 1)
+    text += "\n    N is near " + ratioText(f) + ": " + std::to_string(f.spots) + " spots, each visited every " +
+            std::to_string(f.revsPerVisit) + " revolutions, drift " + signedFmt(f.driftDegPerRev, 4) +
+            " deg per revolution";
+  return text;
 }
 
 // What the orbit asks of the table and does to the marks at the top.
@@ -140,7 +161,7 @@ std::string sweepCsv(const Cylinder& c, const FlagRange& r, double orbit) {
   std::ostringstream o;
   o << "precession_rev_s,orbit_mm,solution,tilt_deg,spots_per_rev,nearest_spots,drift_deg_per_rev,drift_deg_s,"
        "relative_spin_rev_s,contact_radius_mm,centre_height_mm,ceiling_height_mm,friction_needed,ring_radius_mm,"
-       "top_speed_mm_s,branches\n";
+       "top_speed_mm_s,n_ratio,revs_per_visit,ratio_drift_deg_per_rev,branches\n";
   const auto cell = [](double v) { return std::isfinite(v) ? fmt(v, 10) : std::string(); };
   for (long i = 0; i < rows; ++i) {
     const double f = std::min(r.to, r.from + i * r.step);
@@ -151,9 +172,12 @@ std::string sweepCsv(const Cylinder& c, const FlagRange& r, double orbit) {
       o << "," << cell(deg(p->tilt)) << "," << cell(p->spotsPerRev) << "," << p->nearestSpots << ","
         << cell(p->driftDegPerRev) << "," << cell(p->driftDegPerSecond) << "," << cell(revS(p->relativeSpin)) << ","
         << cell(p->contactRadius * mm) << "," << cell(p->centreHeight * mm) << "," << cell(p->ceilingHeight * mm)
-        << "," << cell(p->frictionNeeded) << "," << cell(p->ringRadius * mm) << "," << cell(p->topSpeed * mm);
+        << "," << cell(p->frictionNeeded) << "," << cell(p->ringRadius * mm) << "," << cell(p->topSpeed * mm) << ","
+        << ratioText(p->fraction) << ","
+        << (p->fraction.spots > 0 ? std::to_string(p->fraction.revsPerVisit) + "," + cell(p->fraction.driftDegPerRev)
+                                  : std::string(","));
     else
-      o << ",,,,,,,,,,,,";
+      o << ",,,,,,,,,,,,,,,";
     o << "," << sol.branches.size() << "\n";
   }
   return o.str();

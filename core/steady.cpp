@@ -129,6 +129,7 @@ SteadySpin stateAt(const Geometry& G, double a, double omega, bool pattern, doub
   } else {
     s.driftDegPerRev = s.driftDegPerSecond = std::numeric_limits<double>::quiet_NaN();
   }
+  s.fraction = fractionPattern(s.spotsPerRev);
   s.pattern = pattern;
   return s;
 }
@@ -275,6 +276,22 @@ void checkSteadyGeometry(const Cylinder& c) {
 }
 
 double patternDriftDegPerRev(double spotsPerRev, int spots) { return -(std::abs(spotsPerRev) - spots) * 360.0 / spots; }
+
+FractionPattern fractionPattern(double spotsPerRev) {
+  const double n = std::abs(spotsPerRev);
+  if (!(n >= 0.5)) return {};
+  // A mark stops every 1/n revolution, 360/n degrees on from the last stop;
+  // p stops on it has come 360 p/n degrees, q whole turns and a shift.
+  for (int p = 1; p <= int(maxRevsPerVisit * n) + 1; ++p) {
+    const int q = int(std::lround(p / n));
+    if (q < 1 || q > maxRevsPerVisit) continue;
+    const double shift = 360.0 * (p / n - q);
+    if (std::abs(shift) >= 360.0 / p / 8) continue;
+    // The shift comes every p/n revolutions.
+    return {p, q, shift * n / p};
+  }
+  return {};
+}
 
 double minSteadyPrecession(const Cylinder& c, double g) {
   const Geometry G = geometryOf(c);

@@ -63,6 +63,13 @@ struct CentreOrbit {
   double rho = 0;  ///< m, signed: + towards the raised end, - towards the floor contact
 };
 
+/// A fraction N ~ p/q (fractionPattern).
+struct FractionPattern {
+  int spots = 0;              ///< p, the places one mark stops at (0: none)
+  int revsPerVisit = 0;       ///< q, precession revolutions between visits of one place
+  double driftDegPerRev = 0;  ///< how far a place moves per precession revolution, deg, + with the precession
+};
+
 /// One steady state. Angles in radians, rates in rad/s, lengths in metres.
 /// b = (L/2) cos a - R sin a is the horizontal offset of the contact circle's
 /// centre, rho the centre orbit (CentreOrbit).
@@ -89,6 +96,9 @@ struct SteadySpin {
   double driftDegPerRev = 0;
   double driftDegPerSecond = 0;  ///< the same per second, deg/s (NaN when nearestSpots is 0)
   int nearestSpots = 0;          ///< n, the whole number nearest |N|
+  /// The fewest places the stops come back to, when N is near a fraction
+  /// p/q with few revolutions between visits (fractionPattern).
+  FractionPattern fraction;
   bool pattern = false;          ///< true for the pattern state (the low-tilt rolling branch)
 };
 
@@ -155,6 +165,18 @@ SteadyTiltLimits steadyTiltLimits(const Cylinder& c);
 /// |N| - n: stops fall 360/|N| degrees apart, so every n stops a spot moves
 /// by n 360/|N| - 360 degrees, and n stops take n/|N| revolutions. n >= 1.
 double patternDriftDegPerRev(double spotsPerRev, int spots);
+
+/// Most precession revolutions between two visits of one place that
+/// fractionPattern considers: beyond that a place is lit too seldom to read
+/// as a spot (at 5 rev/s, once in 0.8 s).
+inline constexpr int maxRevsPerVisit = 4;
+
+/// What a steady N makes of one mark's stops, read as the window analysis
+/// reads measured stops (core/pattern.cpp): the fewest places p that every
+/// p-th stop comes back to within an eighth of their spacing, each visited
+/// every q revolutions, so that |N| is near p/q. None (spots 0) when no p
+/// with q <= maxRevsPerVisit does: the stops creep round the ring.
+FractionPattern fractionPattern(double spotsPerRev);
 
 /// Throws std::invalid_argument unless 0 < L, 0 < R, 0 <= r < R, all finite.
 void checkSteadyGeometry(const Cylinder& c);

@@ -25,6 +25,8 @@ assert j["solution"] == "pattern", j["solution"]
 assert abs(j["tilt_deg"] - 16.011) < 0.001, j["tilt_deg"]
 assert abs(j["spots_per_rev"] - 3.569) < 0.001, j["spots_per_rev"]
 assert j["nearest_spots"] == 4
+# N = 3.569 is near no p/q with at most 4 revolutions between visits: 4 spots creeping.
+assert j["n_ratio"] is None and j["revs_per_visit"] is None and j["ratio_drift_deg_per_rev"] is None, j
 assert abs(j["min_precession_rev_s"] - 5.93) < 0.01
 assert abs(j["drift_deg_s"] - 8 * j["drift_deg_per_rev"]) < 1e-9 * abs(j["drift_deg_s"])
 assert abs(j["ceiling_height_mm"] - 2 * j["centre_height_mm"]) < 1e-12
@@ -103,8 +105,16 @@ import csv, sys
 rows = list(csv.DictReader(open(sys.argv[1])))
 header = open(sys.argv[1]).readline().strip().split(",")
 for col in ["precession_rev_s", "tilt_deg", "spots_per_rev", "drift_deg_s", "contact_radius_mm", "ceiling_height_mm",
-            "orbit_mm", "friction_needed", "ring_radius_mm", "top_speed_mm_s"]:
+            "orbit_mm", "friction_needed", "ring_radius_mm", "top_speed_mm_s", "n_ratio", "revs_per_visit",
+            "ratio_drift_deg_per_rev"]:
     assert col in header, col
+# A fraction p/q is given where every p-th stop comes back within an eighth of the spacing.
+for r in rows:
+    if r["n_ratio"]:
+        p, q = map(int, r["n_ratio"].split("/"))
+        n = float(r["spots_per_rev"])
+        assert int(r["revs_per_visit"]) == q and 1 <= q <= 4, r
+        assert abs(360 * (p / n - q)) < 360 / p / 8, r
 assert len(rows) == 11, len(rows)
 assert float(rows[0]["precession_rev_s"]) == 5 and float(rows[-1]["precession_rev_s"]) == 10
 assert rows[0]["solution"] == "none" and rows[0]["tilt_deg"] == ""

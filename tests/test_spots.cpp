@@ -232,6 +232,9 @@ TEST_CASE("half-integer N doubles the spots and weakens them; an irrational N wa
   const std::vector<ImageSpot> seven = redSpots(sevenReport);
   INFO("N = " << observeSteady(half).steady->spotsPerRev << ", spots " << sevenReport.spots.size());
   REQUIRE(seven.size() == 7);
+  // The solver's reading of that N says the same (fractionPattern).
+  CHECK(observeSteady(half).steady->fraction.spots == 7);
+  CHECK(observeSteady(half).steady->fraction.revsPerVisit == 2);
   double weakest4 = 1, strongest7 = 0;
   for (const ImageSpot& s : four) weakest4 = std::min(weakest4, std::abs(s.contrast));
   for (const ImageSpot& s : seven) strongest7 = std::max(strongest7, std::abs(s.contrast));

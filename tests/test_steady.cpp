@@ -737,3 +737,38 @@ TEST_CASE("a bad orbit is refused", "[steady]") {
   CHECK_FALSE(steady_input::orbit.contains(1000.5));
   CHECK(steady_input::orbit.allowedText() == "allowed -1000 to 1000 mm");
 }
+
+TEST_CASE("a steady N near a fraction p/q reads as p spots each visited every q revolutions", "[steady]") {
+  // Our derivation (core/steady.hpp, fractionPattern; the rule of the window
+  // analysis): a mark stops every 360/N degrees, so p stops come round q
+  // times plus 360 (p/N - q) degrees; the fewest p that come back within an
+  // eighth of their spacing, with q at most maxRevsPerVisit.
+  const auto is = [](double n, int p, int q) {
+    const FractionPattern f = fractionPattern(n);
+    INFO("N = " << n << ": " << f.spots << "/" << f.revsPerVisit);
+    CHECK(f.spots == p);
+    CHECK(f.revsPerVisit == q);
+    return f;
+  };
+  CHECK(is(4.0, 4, 1).driftDegPerRev == 0);
+  CHECK(is(3.5, 7, 2).driftDegPerRev == Approx(0).margin(1e-12));
+  is(-2.5, 5, 2);  // the standing branch's negative N reads by its size
+  is(4.5, 9, 2);
+  is(7.0 / 3, 7, 3);
+  is(1.25, 5, 4);
+  is(1.0, 1, 1);
+  // Near a whole number the drift is the whole-number pattern's.
+  CHECK(is(4.02, 4, 1).driftDegPerRev == Approx(patternDriftDegPerRev(4.02, 4)));
+  // Just beyond the eighth: 4 stops of N = 4.13 come back 11.3 degrees off (limit 11.25).
+  CHECK(fractionPattern(4.13).spots == 0);
+  CHECK(fractionPattern(4.12).spots == 4);
+  // Nowhere near a fraction with few revolutions: the stops creep round.
+  is(3.618, 0, 0);
+  is(1.2, 0, 0);  // 6/5 needs five revolutions between visits
+  is(0.3, 0, 0);
+  // A steady spin carries its reading.
+  const Cylinder c = tubeMm(64, 16, 1);
+  const SteadySolution sol = steadyAtPrecession(c, 8 * revS);
+  REQUIRE(sol.pattern());
+  CHECK(sol.pattern()->fraction.spots == fractionPattern(sol.pattern()->spotsPerRev).spots);
+}

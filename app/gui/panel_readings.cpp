@@ -82,6 +82,13 @@ void steadyRows(const Session& s, const AxisMotion& m, double t) {
   row("steady N", fixed(pattern->spotsPerRev, 4) + " (nearest " + std::to_string(pattern->nearestSpots) + ")");
   if (pattern->nearestSpots > 0)
     row("steady drift", fixed(pattern->driftDegPerRev, 2) + " deg/rev, " + fixed(pattern->driftDegPerSecond, 1) + " deg/s");
+  const FractionPattern& f = pattern->fraction;
+  if (f.spots > 0 && f.revsPerVisit > 1)
+    row("steady spots", std::to_string(f.spots) + ", each every " + std::to_string(f.revsPerVisit) + " rev (N near " +
+                            std::to_string(f.spots) + "/" + std::to_string(f.revsPerVisit) + "), drift " +
+                            fixed(f.driftDegPerRev, 2) + " deg/rev");
+  else if (f.spots == 0 && pattern->nearestSpots > 0)
+    row("steady spots", "creeping: N near no p/q within " + std::to_string(maxRevsPerVisit) + " rev");
   row("ceiling height", fixed(pattern->ceilingHeight * 1e3, 2) + " mm");
   row("contact circle radius", fixed(pattern->contactRadius * 1e3, 2) + " mm");
   if (orbit != 0) row("friction needed", fixed(pattern->frictionNeeded, 3));
