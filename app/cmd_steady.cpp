@@ -98,7 +98,8 @@ std::string driftText(const SteadySpin& s) {
   else if (f.revsPerVisit > 1)
     text += "\n    N is near " + ratioText(f) + ": " + std::to_string(f.spots) + " spots, each visited every " +
             std::to_string(f.revsPerVisit) + " revolutions, drift " + signedFmt(f.driftDegPerRev, 4) +
-            " deg per revolution";
+            " deg per revolution (apart only where a mark spans under " + fmt(180.0 / f.spots, 3) +
+            " deg of the ring)";
   return text;
 }
 

@@ -175,7 +175,9 @@ inline constexpr int maxRevsPerVisit = 4;
 /// reads measured stops (core/pattern.cpp): the fewest places p that every
 /// p-th stop comes back to within an eighth of their spacing, each visited
 /// every q revolutions, so that |N| is near p/q. None (spots 0) when no p
-/// with q <= maxRevsPerVisit does: the stops creep round the ring.
+/// with q <= maxRevsPerVisit does: the stops creep round the ring. It
+/// knows no marks: p spots stand apart only where a mark spans less than
+/// 180/p degrees of the ring (the windows' condition, with the mark's size).
 FractionPattern fractionPattern(double spotsPerRev);
 
 /// Throws std::invalid_argument unless 0 < L, 0 < R, 0 <= r < R, all finite.
