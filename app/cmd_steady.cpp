@@ -30,7 +30,7 @@ double deg(double a) { return a / k::degree; }
 
 // "9/2", or empty without a fraction pattern.
 std::string ratioText(const FractionPattern& f) {
-  return f.spots > 0 ? std::to_string(f.spots) + "/" + std::to_string(f.revsPerVisit) : std::string();
+  return f.spots > 0 ? dm::ratioText(f.spots, f.revsPerVisit) : std::string();
 }
 
 // One steady state as JSON, file units.

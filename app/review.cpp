@@ -127,6 +127,7 @@ json steadyJson(const VariantReview& v) {
       j["tilt_deg"] = s.tilt / k::degree;
       j["spots_per_rev"] = s.spotsPerRev;
       j["nearest_spots"] = s.nearestSpots;
+      j["n_ratio"] = s.fraction.spots > 0 ? json(ratioText(s.fraction.spots, s.fraction.revsPerVisit)) : json(nullptr);
       j["drift_deg_s"] = orNull(s.driftDegPerSecond);
       j["ceiling_height_mm"] = s.ceilingHeight * 1e3;
       j["contact_radius_mm"] = s.contactRadius * 1e3;

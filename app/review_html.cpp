@@ -48,6 +48,16 @@ std::string seconds(double s) { return number(s, 3) + " s"; }
 std::string percent(double share) { return number(100 * share, 3) + " %"; }
 std::string revS(double radS) { return number(radS / k::twoPi) + " rev/s"; }
 
+// The spots a steady spin makes: "4", "7, each every 2 rev (N near 7/2)" or
+// "4, creeping" (fractionPattern).
+std::string spotsText(const SteadySpin& s) {
+  const FractionPattern& f = s.fraction;
+  if (f.spots == 0) return s.nearestSpots > 0 ? std::to_string(s.nearestSpots) + ", creeping" : std::string("-");
+  if (f.revsPerVisit == 1) return std::to_string(f.spots);
+  return std::to_string(f.spots) + ", each every " + std::to_string(f.revsPerVisit) + " rev (N near " +
+         ratioText(f.spots, f.revsPerVisit) + ")";
+}
+
 // An embedded PNG, shown at most `shownWidth` px wide (0: at its own size).
 std::string image(const Image& img, const std::string& alt, int shownWidth = 0) {
   const int w = shownWidth > 0 ? std::min(shownWidth, img.width) : img.width;
@@ -253,7 +263,9 @@ std::string parametersSection(const std::vector<VariantReview>& variants) {
 std::string steadySection(const std::vector<VariantReview>& variants) {
   std::string out = "<section id=\"steady\"><h2>Steady-spin prediction</h2><p>The spin the piece settles into, "
                     "rolling on the lower rim while its axis turns about a vertical line: tilt, spots per revolution "
-                    "N and the drift of the nearest whole-number pattern. A hand launch settles with its centre "
+                    "N and the drift of the nearest whole-number pattern; where N is near a fraction p/q the mark "
+                    "stops at p places, each every q revolutions (shown so under spots), and where it is near none "
+                    "with at most four revolutions between visits the stops creep round the ring. A hand launch settles with its centre "
                     "circling that line a few millimetres off it, held by the table's friction (the centre orbit, - "
                     "towards the floor contact); the first row uses the orbit the nominal launch shows in the window "
                     "named, beside what that window measured. The other rows keep the centre on the line (orbit 0), "
@@ -274,7 +286,7 @@ std::string steadySection(const std::vector<VariantReview>& variants) {
       }
       const SteadySpin& s = r.result.spin;
       t.rows.push_back({escape(revS(r.precession) + " (" + r.label + ")"), escape(orbit),
-                        number(s.tilt / k::degree) + " deg", number(s.spotsPerRev), std::to_string(s.nearestSpots),
+                        number(s.tilt / k::degree) + " deg", number(s.spotsPerRev), escape(spotsText(s)),
                         number(s.driftDegPerSecond) + " deg/s", number(s.frictionNeeded, 3), escape(measured)});
     }
     out += "<div class=\"variant\"><h3>" + escape(v.scenario.name) + "</h3><p>Lowest steady precession " +

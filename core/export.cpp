@@ -6,6 +6,7 @@
 #include "core/constants.hpp"
 #include "core/io.hpp"
 #include "core/kinematics.hpp"
+#include "core/steady.hpp"
 
 namespace dm {
 
@@ -49,9 +50,7 @@ std::string xyzColumns(const std::string& name) {
 constexpr double degPerRad = 1 / k::degree;
 
 // "7/2": the rational N = p/q the stops repeat with (PatternWindow::stopsPerVisit, revsPerVisit).
-std::string ratioText(const PatternWindow& w) {
-  return std::to_string(w.stopsPerVisit) + "/" + std::to_string(w.revsPerVisit);
-}
+std::string ratioText(const PatternWindow& w) { return dm::ratioText(w.stopsPerVisit, w.revsPerVisit); }
 
 }  // namespace
 

@@ -277,6 +277,8 @@ void checkSteadyGeometry(const Cylinder& c) {
 
 double patternDriftDegPerRev(double spotsPerRev, int spots) { return -(std::abs(spotsPerRev) - spots) * 360.0 / spots; }
 
+std::string ratioText(int spots, int revsPerVisit) { return std::to_string(spots) + "/" + std::to_string(revsPerVisit); }
+
 FractionPattern fractionPattern(double spotsPerRev) {
   const double n = std::abs(spotsPerRev);
   if (!(n >= 0.5)) return {};

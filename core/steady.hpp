@@ -180,6 +180,9 @@ inline constexpr int maxRevsPerVisit = 4;
 /// 180/p degrees of the ring (the windows' condition, with the mark's size).
 FractionPattern fractionPattern(double spotsPerRev);
 
+/// "7/2": N near p/q, as files and reports write it (the windows' n_ratio too).
+std::string ratioText(int spots, int revsPerVisit);
+
 /// Throws std::invalid_argument unless 0 < L, 0 < R, 0 <= r < R, all finite.
 void checkSteadyGeometry(const Cylinder& c);
 

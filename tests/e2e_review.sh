@@ -77,6 +77,13 @@ for v in variants:
     for key in ["scenario", "steady", "ensemble", "observer", "viewing", "lighting", "advice", "cautions"]:
         assert key in v, key
     assert v["ensemble"]["launches"] == 4
+    # Each steady row says how its N reads: "p/q" (p spots, each every q revolutions) or null (creeping).
+    for row in v["steady"]["rows"]:
+        if row["found"]:
+            assert "n_ratio" in row, row
+            if row["n_ratio"] is not None:
+                p, q = map(int, row["n_ratio"].split("/"))
+                assert 1 <= q <= 4 and abs(360 * (p / row["spots_per_rev"] - q)) < 360 / p / 8, row
     assert [c["topic"] for c in v["cautions"]][0].startswith("a spinning piece")
 assert "safety officer" in review["safety_authority"]
 PY
