@@ -20,6 +20,12 @@ inline constexpr double rollingSlip = 1e-3;
 /// a millimetre per second and about half a degree per second.
 inline constexpr double restSpeed = 1e-3;
 inline constexpr double restSpin = 0.01;
+/// Share of the spacing between spots by which a mark's revisit may miss
+/// its place and still count as the same spot: an eighth, so that stops
+/// scattered that much fill less than two fifths of the circle with +-2
+/// sigma bands. The window analysis (core/pattern.cpp) and the steady
+/// reading (fractionPattern, core/steady.cpp) both use it.
+inline constexpr double revisitTolerance = 1.0 / 8;
 /// Angular-speed scale (rad/s) that smooths the rolling-resistance and pivot
 /// torques through zero; about a hundredth of a revolution per second.
 inline constexpr double torqueSmoothing = 0.05;

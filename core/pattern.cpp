@@ -279,9 +279,8 @@ struct Revisit {
 
 // The fewest spots whose revisits come back to their own place (root mean
 // square over all revisits in the window): within the spot's own size, or,
-// for spots far apart, within an eighth of their spacing, so that a spot
-// blurred by nutation still counts as one (stops scattered that much fill
-// less than two fifths of the circle with +-2 sigma bands); none when no
+// for spots far apart, within k::revisitTolerance (an eighth) of their
+// spacing, so that a spot blurred by nutation still counts as one; none when no
 // count does. A count is tried only if the spots fit round the circle with a
 // spot size of gap between them, and if the longest sequence can hit each of
 // them twice (a place hit once in a window is a flash, not a spot).
@@ -301,7 +300,7 @@ std::optional<Revisit> findRevisit(const std::vector<std::vector<SeenStop>>& seq
         ++pairs;
       }
     const double mean = sumShift / pairs, meanSquare = sumSquare / pairs;
-    if (std::sqrt(meanSquare) >= std::max(spotSize, k::twoPi / p / 8)) continue;
+    if (std::sqrt(meanSquare) >= std::max(spotSize, k::revisitTolerance * k::twoPi / p)) continue;
     // A shift is the difference of two stops: its variance is twice a stop's.
     const double spread = std::sqrt(std::max(0.0, meanSquare - mean * mean) / 2);
     return Revisit{p, mean, spread, sumPeriod / pairs};

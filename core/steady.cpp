@@ -288,7 +288,7 @@ FractionPattern fractionPattern(double spotsPerRev) {
     const int q = int(std::lround(p / n));
     if (q < 1 || q > maxRevsPerVisit) continue;
     const double shift = 360.0 * (p / n - q);
-    if (std::abs(shift) >= 360.0 / p / 8) continue;
+    if (std::abs(shift) >= k::revisitTolerance * 360.0 / p) continue;
     // The shift comes every p/n revolutions.
     return {p, q, shift * n / p};
   }

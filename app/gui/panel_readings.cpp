@@ -85,8 +85,7 @@ void steadyRows(const Session& s, const AxisMotion& m, double t) {
   const FractionPattern& f = pattern->fraction;
   if (f.spots > 0 && f.revsPerVisit > 1)
     row("steady spots", std::to_string(f.spots) + ", each every " + std::to_string(f.revsPerVisit) + " rev (N near " +
-                            std::to_string(f.spots) + "/" + std::to_string(f.revsPerVisit) + "), drift " +
-                            fixed(f.driftDegPerRev, 2) + " deg/rev");
+                            ratioText(f.spots, f.revsPerVisit) + "), drift " + fixed(f.driftDegPerRev, 2) + " deg/rev");
   else if (f.spots == 0 && pattern->nearestSpots > 0)
     row("steady spots", "creeping: N near no p/q within " + std::to_string(maxRevsPerVisit) + " rev");
   row("ceiling height", fixed(pattern->ceilingHeight * 1e3, 2) + " mm");
